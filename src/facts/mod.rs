@@ -1,0 +1,1 @@
+//! The facts file schema (serde) and its translation into assertions with degrees.

@@ -1,0 +1,10 @@
+//! wherefore: measures spatial relations between labelled regions, reasons over OWL 2
+//! knowledge with its own tableau, explains observations by abduction and renders drafts.
+//!
+//! The library is layered as DEVELOPERS.md describes; `main.rs` is a thin shell over it.
+
+pub mod cli;
+pub mod facts;
+pub mod kb;
+pub mod reasoner;
+pub mod spatial;

@@ -1,0 +1,1 @@
+//! The tableau reasoner for SHIQ with numeric data ranges.

@@ -1,0 +1,878 @@
+//! Loading OWL 2 ontologies (functional syntax, OWL/XML, RDF/XML) through horned-owl and
+//! converting them into the internal knowledge base. This is the only file that imports
+//! horned-owl's model.
+
+use super::datarange::{Bound, DataRange, Kind, Piece, Space};
+use super::{AnnotationValue, Axiom, ConceptId, IndividualId, KbError, KnowledgeBase, RoleId};
+use horned_owl::io::ofn::writer::AsFunctional;
+use horned_owl::io::RDFParserConfiguration;
+use horned_owl::vocab::Facet;
+use horned_owl::io::{ParserConfiguration, ResourceType};
+use horned_owl::model::{
+    AnnotatedComponent, AnnotationSubject, ArcStr, Build, ClassExpression as CE, Component, DataRange as HDataRange,
+    Individual, Literal, ObjectPropertyExpression as OPE, SubObjectPropertyExpression,
+};
+use horned_owl::ontology::set::SetOntology;
+use std::collections::BTreeSet;
+use std::path::{Path, PathBuf};
+
+const XSD: &str = "http://www.w3.org/2001/XMLSchema#";
+const RDFS_LITERAL: &str = "http://www.w3.org/2000/01/rdf-schema#Literal";
+const OWL: &str = "http://www.w3.org/2002/07/owl#";
+
+/// How to load ontologies.
+#[derive(Clone, Debug, Default)]
+pub struct LoadOptions {
+    /// Extra folders searched for imported ontologies.
+    pub import_dirs: Vec<PathBuf>,
+    /// Drop refused axioms with a warning instead of failing.
+    pub lenient: bool,
+}
+
+/// One parsed file: its components and ontology IRI.
+struct Parsed {
+    components: Vec<AnnotatedComponent<ArcStr>>,
+    iri: Option<String>,
+    imports: Vec<String>,
+}
+
+/// Loads ontology files (and their imports) into a fresh knowledge base.
+pub fn load(paths: &[PathBuf], opts: &LoadOptions) -> Result<KnowledgeBase, KbError> {
+    let mut kb = KnowledgeBase::new();
+    load_into(&mut kb, paths, opts)?;
+    Ok(kb)
+}
+
+/// Loads ontology files (and their imports) into an existing knowledge base.
+pub fn load_into(kb: &mut KnowledgeBase, paths: &[PathBuf], opts: &LoadOptions) -> Result<(), KbError> {
+    // Parse every given file first, so that imports naming one of them resolve to it.
+    let mut given: Vec<(PathBuf, Parsed)> = Vec::new();
+    for p in paths {
+        given.push((p.clone(), parse_file(p)?));
+    }
+    let mut loaded_iris: BTreeSet<String> = BTreeSet::new();
+    let mut loaded_paths: BTreeSet<PathBuf> = BTreeSet::new();
+    for (p, _) in &given {
+        loaded_paths.insert(canonical(p));
+    }
+    for (_, parsed) in &given {
+        if let Some(iri) = &parsed.iri {
+            loaded_iris.insert(iri.clone());
+        }
+    }
+    let given_iris: Vec<Option<String>> = given.iter().map(|(_, p)| p.iri.clone()).collect();
+    let mut queue: Vec<(PathBuf, Parsed, Vec<String>)> = Vec::new();
+    for (p, parsed) in given {
+        let chain = vec![parsed.iri.clone().unwrap_or_else(|| p.display().to_string())];
+        queue.push((p, parsed, chain));
+    }
+    let mut idx = 0;
+    while idx < queue.len() {
+        let (path, imports, chain) = {
+            let (p, parsed, chain) = &queue[idx];
+            (p.clone(), parsed.imports.clone(), chain.clone())
+        };
+        for imp in imports {
+            if chain.contains(&imp) {
+                return Err(KbError::ImportCycle {
+                    file: path.display().to_string(),
+                    chain: format!("{} -> {}", chain.join(" -> "), imp),
+                });
+            }
+            if loaded_iris.contains(&imp) || given_iris.iter().any(|g| g.as_deref() == Some(imp.as_str())) {
+                continue;
+            }
+            match resolve_import(&imp, &path, &opts.import_dirs) {
+                Some(found) => {
+                    let key = canonical(&found);
+                    if loaded_paths.contains(&key) {
+                        // The same file under another IRI: a cycle when it is on the chain.
+                        if queue.iter().any(|(qp, qparsed, _)| {
+                            canonical(qp) == key && qparsed.iri.as_ref().is_some_and(|i| chain.contains(i))
+                        }) {
+                            return Err(KbError::ImportCycle {
+                                file: path.display().to_string(),
+                                chain: format!("{} -> {}", chain.join(" -> "), imp),
+                            });
+                        }
+                        continue;
+                    }
+                    let parsed = parse_file(&found)?;
+                    if let Some(i) = &parsed.iri {
+                        if chain.contains(i) {
+                            return Err(KbError::ImportCycle {
+                                file: found.display().to_string(),
+                                chain: format!("{} -> {}", chain.join(" -> "), i),
+                            });
+                        }
+                        loaded_iris.insert(i.clone());
+                    }
+                    loaded_iris.insert(imp.clone());
+                    loaded_paths.insert(key);
+                    let mut c2 = chain.clone();
+                    c2.push(imp.clone());
+                    queue.push((found, parsed, c2));
+                }
+                None => {
+                    kb.warnings.push(format!(
+                        "{}: import <{}> not found beside the file or in --import-dir; going on without it, so results may be incomplete",
+                        path.display(),
+                        imp
+                    ));
+                    kb.incomplete = true;
+                    loaded_iris.insert(imp);
+                }
+            }
+        }
+        idx += 1;
+    }
+    for (path, parsed, _) in queue {
+        let file = path.display().to_string();
+        kb.files.push(file.clone());
+        let mut conv = Converter { kb, file, lenient: opts.lenient };
+        conv.convert_all(&parsed.components)?;
+    }
+    kb.signature_classes = (0..kb.vocab.classes.len() as u32).map(super::ClassId).collect();
+    Ok(())
+}
+
+fn canonical(p: &Path) -> PathBuf {
+    std::fs::canonicalize(p).unwrap_or_else(|_| p.to_path_buf())
+}
+
+/// Finds a local file for an imported ontology IRI.
+fn resolve_import(iri: &str, importer: &Path, dirs: &[PathBuf]) -> Option<PathBuf> {
+    if let Some(rest) = iri.strip_prefix("file://") {
+        let p = PathBuf::from(rest);
+        if p.is_file() {
+            return Some(p);
+        }
+    }
+    let last = iri.trim_end_matches(['/', '#']).rsplit(['/', '#', ':']).next().unwrap_or("");
+    if last.is_empty() {
+        return None;
+    }
+    let mut names = vec![last.to_string()];
+    if !last.contains('.') {
+        for ext in ["ofn", "owl", "owx", "rdf", "xml"] {
+            names.push(format!("{last}.{ext}"));
+        }
+    }
+    let mut folders: Vec<PathBuf> = Vec::new();
+    if let Some(parent) = importer.parent() {
+        folders.push(if parent.as_os_str().is_empty() { PathBuf::from(".") } else { parent.to_path_buf() });
+    }
+    folders.extend(dirs.iter().cloned());
+    for f in folders {
+        for n in &names {
+            let c = f.join(n);
+            if c.is_file() {
+                return Some(c);
+            }
+        }
+    }
+    None
+}
+
+/// Reads and parses one file, telling the syntax from its content.
+fn parse_file(path: &Path) -> Result<Parsed, KbError> {
+    let file = path.display().to_string();
+    let bytes = std::fs::read(path).map_err(|e| KbError::Unreadable { file: file.clone(), reason: e.to_string() })?;
+    if bytes.iter().all(|b| b.is_ascii_whitespace()) {
+        return Err(KbError::Syntax {
+            file,
+            reason: "the file is empty. Give an ontology in OWL 2 functional syntax, OWL/XML or RDF/XML.".into(),
+        });
+    }
+    let text = match String::from_utf8(bytes) {
+        Ok(t) => t,
+        Err(e) => {
+            return Err(KbError::Syntax {
+                file,
+                reason: format!(
+                    "not UTF-8 text (invalid byte at offset {}); this does not look like an ontology. Give OWL 2 functional syntax, OWL/XML or RDF/XML.",
+                    e.utf8_error().valid_up_to()
+                ),
+            });
+        }
+    };
+    let Some((kind, rdf_format)) = horned_owl::io::detect_format(text.as_bytes()) else {
+        return Err(KbError::Syntax {
+            file,
+            reason: "cannot tell the syntax from the content: expected OWL 2 functional syntax (Prefix(...)/Ontology(...)), OWL/XML (<Ontology>) or RDF/XML (<rdf:RDF>).".into(),
+        });
+    };
+    let file2 = file.clone();
+    // horned-owl's parsers recurse; parse on a thread with a large stack and turn any panic
+    // into an error value rather than a crash.
+    let handle = std::thread::Builder::new()
+        .stack_size(256 << 20)
+        .spawn(move || -> Result<(SetOntology<ArcStr>, Vec<String>), String> { parse_text(&text, kind, rdf_format) })
+        .map_err(|e| KbError::Syntax { file: file2.clone(), reason: format!("cannot start the parser: {e}") })?;
+    let (ont, incomplete) = match handle.join() {
+        Ok(Ok(x)) => x,
+        Ok(Err(reason)) => return Err(KbError::Syntax { file, reason }),
+        Err(_) => {
+            return Err(KbError::Syntax {
+                file,
+                reason: "the parser failed on this file (it is malformed). Check it with an OWL editor or validator.".into(),
+            });
+        }
+    };
+    if !incomplete.is_empty() {
+        return Err(KbError::Syntax {
+            file,
+            reason: format!(
+                "the RDF/XML parser could not read {} part(s) as OWL 2 (undeclared entities or malformed constructs), first: {}. Declare the entities (owl:Class, owl:ObjectProperty, …) or fix the triples.",
+                incomplete.len(),
+                incomplete.iter().take(3).cloned().collect::<Vec<_>>().join("; ")
+            ),
+        });
+    }
+    let mut components: Vec<AnnotatedComponent<ArcStr>> = ont.iter().cloned().collect();
+    components.sort();
+    let mut iri = None;
+    let mut imports = Vec::new();
+    for ac in &components {
+        match &ac.component {
+            Component::OntologyID(id) => {
+                iri = id.iri.as_ref().map(|i| i.to_string());
+            }
+            Component::Import(i) => imports.push(i.0.to_string()),
+            _ => {}
+        }
+    }
+    Ok(Parsed { components, iri, imports })
+}
+
+fn parse_text(
+    text: &str,
+    kind: ResourceType,
+    rdf_format: Option<oxrdfio::RdfFormat>,
+) -> Result<(SetOntology<ArcStr>, Vec<String>), String> {
+    let mut cursor = std::io::Cursor::new(text.as_bytes());
+    let config = ParserConfiguration::new(Build::new_arc());
+    match kind {
+        ResourceType::OFN => horned_owl::io::ofn::reader::read::<ArcStr, _, SetOntology<ArcStr>, _>(&mut cursor, config)
+            .map(|(o, _)| (o, Vec::new()))
+            .map_err(|e| format!("OWL functional syntax error: {e}. Fix the text at that position.")),
+        ResourceType::OWX => horned_owl::io::owx::reader::read::<ArcStr, _, SetOntology<ArcStr>, _>(&mut cursor, config)
+            .map(|(o, _)| (o, Vec::new()))
+            .map_err(|e| format!("OWL/XML error: {e}. Fix the XML at that position.")),
+        ResourceType::RDF => {
+            let mut rc: RDFParserConfiguration<ArcStr> = config.into();
+            rc.format = rdf_format;
+            horned_owl::io::rdf::reader::read::<ArcStr, horned_owl::model::ArcAnnotatedComponent, _, _>(&mut cursor, rc)
+                .map(|(o, inc)| {
+                    let mut left = Vec::new();
+                    for t in inc.simple.iter().take(5) {
+                        left.push(format!("{t:?}"));
+                    }
+                    let n = inc.simple.len()
+                        + inc.bnode.len()
+                        + inc.bnode_seq.len()
+                        + inc.class_expression.len()
+                        + inc.object_property_expression.len()
+                        + inc.data_range.len();
+                    if n > left.len() {
+                        for t in inc.bnode.iter().take(3) {
+                            left.push(format!("{t:?}"));
+                        }
+                        for c in inc.class_expression.iter().take(3) {
+                            left.push(format!("{c:?}"));
+                        }
+                    }
+                    while left.len() < n {
+                        left.push("(unconnected construct)".into());
+                    }
+                    (o.into(), left)
+                })
+                .map_err(|e| format!("RDF error: {e}. Fix the document at that position."))
+        }
+        _ => Err("this syntax (Manchester, OBO or Turtle) is not supported; convert it to OWL 2 functional syntax, OWL/XML or RDF/XML".into()),
+    }
+}
+
+
+struct Converter<'a> {
+    kb: &'a mut KnowledgeBase,
+    file: String,
+    lenient: bool,
+}
+
+type Conv<T> = Result<T, String>;
+
+impl Converter<'_> {
+    fn convert_all(&mut self, comps: &[AnnotatedComponent<ArcStr>]) -> Result<(), KbError> {
+        for ac in comps {
+            let text = ac.component.as_functional().to_string();
+            let anns: Vec<(String, String)> =
+                ac.ann.iter().map(|a| (a.ap.0.to_string(), annotation_text(&a.av).0)).collect();
+            let start = self.kb.axioms.len();
+            let src = self.kb.sources.len();
+            match self.component(&ac.component, src) {
+                Ok(true) => {
+                    self.kb.add_source(text, self.file.clone(), anns);
+                }
+                Ok(false) => {}
+                Err(reason) => {
+                    self.kb.axioms.truncate(start);
+                    if self.lenient {
+                        self.kb.warnings.push(format!("{}: dropped {} ({})", self.file, text, reason));
+                        self.kb.incomplete = true;
+                    } else {
+                        return Err(KbError::Unsupported { file: self.file.clone(), axiom: text, reason });
+                    }
+                }
+            }
+        }
+        Ok(())
+    }
+
+    /// Converts one component; returns whether it was a logical axiom.
+    fn component(&mut self, c: &Component<ArcStr>, src: usize) -> Conv<bool> {
+        use Component as C;
+        match c {
+            C::OntologyID(_) | C::DocIRI(_) | C::Import(_) | C::OntologyAnnotation(_) => Ok(false),
+            C::DeclareClass(cl) => {
+                self.class_concept(&cl.0);
+                Ok(false)
+            }
+            C::DeclareObjectProperty(p) => {
+                self.kb.vocab.prop(&p.0);
+                Ok(false)
+            }
+            C::DeclareDataProperty(p) => {
+                self.kb.vocab.data_prop(&p.0);
+                Ok(false)
+            }
+            C::DeclareNamedIndividual(i) => {
+                self.kb.vocab.individual(&i.0);
+                Ok(false)
+            }
+            C::DeclareAnnotationProperty(_) | C::DeclareDatatype(_) => Ok(false),
+            C::AnnotationAssertion(a) => {
+                let subject = match &a.subject {
+                    AnnotationSubject::IRI(i) => i.to_string(),
+                    AnnotationSubject::AnonymousIndividual(i) => format!("_:{}", i.0),
+                };
+                let (value, lang) = annotation_text(&a.ann.av);
+                self.kb
+                    .annotations
+                    .entry(subject)
+                    .or_default()
+                    .entry(a.ann.ap.0.to_string())
+                    .or_default()
+                    .push(AnnotationValue { value, lang });
+                Ok(false)
+            }
+            C::SubAnnotationPropertyOf(_) | C::AnnotationPropertyDomain(_) | C::AnnotationPropertyRange(_) => Ok(false),
+            C::SubClassOf(ax) => {
+                if let CE::ObjectOneOf(inds) = &ax.sub {
+                    // {a₁,…,aₙ} ⊑ C holds exactly when each C(aᵢ) does.
+                    for i in inds {
+                        let a = self.individual(i);
+                        self.assert_class(&ax.sup, a, src)?;
+                    }
+                    return Ok(true);
+                }
+                let sub = self.ce(&ax.sub, true)?;
+                let sup = self.ce(&ax.sup, true)?;
+                self.kb.push(Axiom::SubClass(sub, sup), src);
+                Ok(true)
+            }
+            C::EquivalentClasses(ax) => {
+                let cs = ax.0.iter().map(|e| self.ce(e, true)).collect::<Conv<Vec<_>>>()?;
+                self.kb.push(Axiom::Equivalent(cs), src);
+                Ok(true)
+            }
+            C::DisjointClasses(ax) => {
+                let cs = ax.0.iter().map(|e| self.ce(e, true)).collect::<Conv<Vec<_>>>()?;
+                self.kb.push(Axiom::Disjoint(cs), src);
+                Ok(true)
+            }
+            C::DisjointUnion(ax) => {
+                let a = self.class_concept(&ax.0.0);
+                let cs = ax.1.iter().map(|e| self.ce(e, true)).collect::<Conv<Vec<_>>>()?;
+                self.kb.push(Axiom::DisjointUnion(a, cs), src);
+                Ok(true)
+            }
+            C::SubObjectPropertyOf(ax) => {
+                let sup = self.role(&ax.sup);
+                match &ax.sub {
+                    SubObjectPropertyExpression::ObjectPropertyExpression(e) => {
+                        let sub = self.role(e);
+                        self.kb.push(Axiom::SubRole(sub, sup), src);
+                        Ok(true)
+                    }
+                    SubObjectPropertyExpression::ObjectPropertyChain(_) => {
+                        Err("property chains are outside SHIQ".into())
+                    }
+                }
+            }
+            C::EquivalentObjectProperties(ax) => {
+                let rs: Vec<RoleId> = ax.0.iter().map(|e| self.role(e)).collect();
+                for w in rs.windows(2) {
+                    self.kb.push(Axiom::SubRole(w[0], w[1]), src);
+                    self.kb.push(Axiom::SubRole(w[1], w[0]), src);
+                }
+                Ok(true)
+            }
+            C::InverseObjectProperties(ax) => {
+                let p = RoleId::named(self.kb.vocab.prop(&ax.0.0));
+                let q = RoleId::named(self.kb.vocab.prop(&ax.1.0));
+                self.kb.push(Axiom::SubRole(p, q.inverse()), src);
+                self.kb.push(Axiom::SubRole(q.inverse(), p), src);
+                Ok(true)
+            }
+            C::ObjectPropertyDomain(ax) => {
+                let r = self.role(&ax.ope);
+                let c = self.ce(&ax.ce, true)?;
+                self.kb.push(Axiom::Domain(r, c), src);
+                Ok(true)
+            }
+            C::ObjectPropertyRange(ax) => {
+                let r = self.role(&ax.ope);
+                let c = self.ce(&ax.ce, true)?;
+                self.kb.push(Axiom::Domain(r.inverse(), c), src);
+                Ok(true)
+            }
+            C::FunctionalObjectProperty(ax) => {
+                let r = self.role(&ax.0);
+                self.kb.push(Axiom::Functional(r), src);
+                Ok(true)
+            }
+            C::InverseFunctionalObjectProperty(ax) => {
+                let r = self.role(&ax.0);
+                self.kb.push(Axiom::Functional(r.inverse()), src);
+                Ok(true)
+            }
+            C::SymmetricObjectProperty(ax) => {
+                let r = self.role(&ax.0);
+                self.kb.push(Axiom::SubRole(r, r.inverse()), src);
+                Ok(true)
+            }
+            C::TransitiveObjectProperty(ax) => {
+                let r = self.role(&ax.0);
+                self.kb.push(Axiom::Transitive(r), src);
+                Ok(true)
+            }
+            C::ReflexiveObjectProperty(_) => Err("reflexive properties are outside SHIQ".into()),
+            C::IrreflexiveObjectProperty(_) => Err("irreflexive properties are outside SHIQ".into()),
+            C::AsymmetricObjectProperty(_) => Err("asymmetric properties are outside SHIQ".into()),
+            C::DisjointObjectProperties(_) => Err("disjoint object properties are outside SHIQ".into()),
+            C::SubDataPropertyOf(ax) => {
+                let a = self.kb.vocab.data_prop(&ax.sub.0);
+                let b = self.kb.vocab.data_prop(&ax.sup.0);
+                self.kb.push(Axiom::SubDataProp(a, b), src);
+                Ok(true)
+            }
+            C::EquivalentDataProperties(ax) => {
+                let ps: Vec<_> = ax.0.iter().map(|p| self.kb.vocab.data_prop(&p.0)).collect();
+                for w in ps.windows(2) {
+                    self.kb.push(Axiom::SubDataProp(w[0], w[1]), src);
+                    self.kb.push(Axiom::SubDataProp(w[1], w[0]), src);
+                }
+                Ok(true)
+            }
+            C::DisjointDataProperties(_) => Err("disjoint data properties are not supported".into()),
+            C::DataPropertyDomain(ax) => {
+                let p = self.kb.vocab.data_prop(&ax.dp.0);
+                let c = self.ce(&ax.ce, true)?;
+                self.kb.push(Axiom::DataDomain(p, c), src);
+                Ok(true)
+            }
+            C::DataPropertyRange(ax) => {
+                let p = self.kb.vocab.data_prop(&ax.dp.0);
+                let r = self.data_range(&ax.dr)?;
+                let id = self.kb.ranges.intern(r);
+                self.kb.push(Axiom::DataRangeAxiom(p, id), src);
+                Ok(true)
+            }
+            C::FunctionalDataProperty(ax) => {
+                let p = self.kb.vocab.data_prop(&ax.0.0);
+                self.kb.push(Axiom::FunctionalData(p), src);
+                Ok(true)
+            }
+            C::DatatypeDefinition(_) => Err("datatype definitions are not supported".into()),
+            C::HasKey(_) => Err("keys are outside SHIQ".into()),
+            C::SameIndividual(ax) => {
+                let is: Vec<_> = ax.0.iter().map(|i| self.individual(i)).collect();
+                self.kb.push(Axiom::Same(is), src);
+                Ok(true)
+            }
+            C::DifferentIndividuals(ax) => {
+                let is: Vec<_> = ax.0.iter().map(|i| self.individual(i)).collect();
+                self.kb.push(Axiom::Different(is), src);
+                Ok(true)
+            }
+            C::ClassAssertion(ax) => {
+                let a = self.individual(&ax.i);
+                self.assert_class(&ax.ce, a, src)?;
+                Ok(true)
+            }
+            C::ObjectPropertyAssertion(ax) => {
+                let r = self.role(&ax.ope);
+                let a = self.individual(&ax.from);
+                let b = self.individual(&ax.to);
+                self.kb.push(Axiom::RoleAssertion(r, a, b), src);
+                Ok(true)
+            }
+            C::NegativeObjectPropertyAssertion(ax) => {
+                let r = self.role(&ax.ope);
+                let a = self.individual(&ax.from);
+                let b = self.individual(&ax.to);
+                self.kb.push(Axiom::NegativeRoleAssertion(r, a, b), src);
+                Ok(true)
+            }
+            C::DataPropertyAssertion(ax) => {
+                let p = self.kb.vocab.data_prop(&ax.dp.0);
+                let a = self.individual(&ax.from);
+                let v = self.literal_range(&ax.to)?;
+                let c = self.data_some(p, v);
+                self.kb.push(Axiom::ClassAssertion(c, a), src);
+                Ok(true)
+            }
+            C::NegativeDataPropertyAssertion(ax) => {
+                let p = self.kb.vocab.data_prop(&ax.dp.0);
+                let a = self.individual(&ax.from);
+                let v = self.literal_range(&ax.to)?;
+                let c = self.data_some(p, v);
+                let nc = self.kb.concepts.not(c);
+                self.kb.push(Axiom::ClassAssertion(nc, a), src);
+                Ok(true)
+            }
+            C::Rule(_) => Err("SWRL rules are not supported".into()),
+        }
+    }
+
+    /// C(a), with nominal forms rewritten into plain assertions where that is exact.
+    fn assert_class(&mut self, ce: &CE<ArcStr>, a: IndividualId, src: usize) -> Conv<()> {
+        match ce {
+            CE::ObjectIntersectionOf(xs) => {
+                for x in xs {
+                    self.assert_class(x, a, src)?;
+                }
+                Ok(())
+            }
+            CE::ObjectHasValue { ope, i } => {
+                let r = self.role(ope);
+                let b = self.individual(i);
+                self.kb.push(Axiom::RoleAssertion(r, a, b), src);
+                Ok(())
+            }
+            CE::ObjectOneOf(is) if is.len() == 1 => {
+                let b = self.individual(&is[0]);
+                self.kb.push(Axiom::Same(vec![a, b]), src);
+                Ok(())
+            }
+            CE::ObjectComplementOf(inner) => match inner.as_ref() {
+                CE::ObjectHasValue { ope, i } => {
+                    let r = self.role(ope);
+                    let b = self.individual(i);
+                    self.kb.push(Axiom::NegativeRoleAssertion(r, a, b), src);
+                    Ok(())
+                }
+                CE::ObjectOneOf(is) => {
+                    for i in is {
+                        let b = self.individual(i);
+                        self.kb.push(Axiom::Different(vec![a, b]), src);
+                    }
+                    Ok(())
+                }
+                _ => {
+                    let c = self.ce(ce, false)?;
+                    self.kb.push(Axiom::ClassAssertion(c, a), src);
+                    Ok(())
+                }
+            },
+            _ => {
+                let c = self.ce(ce, false)?;
+                self.kb.push(Axiom::ClassAssertion(c, a), src);
+                Ok(())
+            }
+        }
+    }
+
+    fn class_concept(&mut self, iri: &str) -> ConceptId {
+        if iri == format!("{OWL}Thing") {
+            return ConceptId::TOP;
+        }
+        if iri == format!("{OWL}Nothing") {
+            return ConceptId::BOTTOM;
+        }
+        let c = self.kb.vocab.class(iri);
+        self.kb.concepts.atom(c)
+    }
+
+    fn role(&mut self, e: &OPE<ArcStr>) -> RoleId {
+        match e {
+            OPE::ObjectProperty(p) => RoleId::named(self.kb.vocab.prop(&p.0)),
+            OPE::InverseObjectProperty(p) => RoleId::named(self.kb.vocab.prop(&p.0)).inverse(),
+        }
+    }
+
+    fn individual(&mut self, i: &Individual<ArcStr>) -> IndividualId {
+        match i {
+            Individual::Named(n) => self.kb.vocab.individual(&n.0),
+            Individual::Anonymous(a) => self.kb.vocab.individual(&format!("_:{}#{}", self.file, a.0)),
+        }
+    }
+
+    fn data_some(&mut self, p: super::DataPropId, r: DataRange) -> ConceptId {
+        let not_r = r.complement();
+        let a = self.kb.ranges.intern(r);
+        let b = self.kb.ranges.intern(not_r);
+        self.kb.concepts.data_some(p, a, b)
+    }
+
+    fn data_all(&mut self, p: super::DataPropId, r: DataRange) -> ConceptId {
+        let not_r = r.complement();
+        let a = self.kb.ranges.intern(r);
+        let b = self.kb.ranges.intern(not_r);
+        self.kb.concepts.data_all(p, a, b)
+    }
+
+    /// Translates a class expression into a concept in NNF. `tbox` marks TBox positions,
+    /// where surviving nominals are recorded.
+    fn ce(&mut self, e: &CE<ArcStr>, tbox: bool) -> Conv<ConceptId> {
+        Ok(match e {
+            CE::Class(c) => self.class_concept(&c.0),
+            CE::ObjectIntersectionOf(xs) => {
+                let v = xs.iter().map(|x| self.ce(x, tbox)).collect::<Conv<Vec<_>>>()?;
+                self.kb.concepts.and(v)
+            }
+            CE::ObjectUnionOf(xs) => {
+                let v = xs.iter().map(|x| self.ce(x, tbox)).collect::<Conv<Vec<_>>>()?;
+                self.kb.concepts.or(v)
+            }
+            CE::ObjectComplementOf(x) => {
+                let c = self.ce(x, tbox)?;
+                self.kb.concepts.not(c)
+            }
+            CE::ObjectOneOf(is) => {
+                if is.is_empty() {
+                    return Ok(ConceptId::BOTTOM);
+                }
+                self.kb.tbox_nominals = true;
+                let v: Vec<ConceptId> = is
+                    .iter()
+                    .map(|i| {
+                        let a = self.individual(i);
+                        self.kb.concepts.nominal(a)
+                    })
+                    .collect();
+                self.kb.concepts.or(v)
+            }
+            CE::ObjectSomeValuesFrom { ope, bce } => {
+                let r = self.role(ope);
+                let c = self.ce(bce, tbox)?;
+                self.kb.concepts.some(r, c)
+            }
+            CE::ObjectAllValuesFrom { ope, bce } => {
+                let r = self.role(ope);
+                let c = self.ce(bce, tbox)?;
+                self.kb.concepts.all(r, c)
+            }
+            CE::ObjectHasValue { ope, i } => {
+                self.kb.tbox_nominals = true;
+                let r = self.role(ope);
+                let a = self.individual(i);
+                let n = self.kb.concepts.nominal(a);
+                self.kb.concepts.some(r, n)
+            }
+            CE::ObjectHasSelf(_) => return Err("self restrictions are outside SHIQ".into()),
+            CE::ObjectMinCardinality { n, ope, bce } => {
+                let r = self.role(ope);
+                let c = self.ce(bce, tbox)?;
+                self.kb.concepts.at_least(*n, r, c)
+            }
+            CE::ObjectMaxCardinality { n, ope, bce } => {
+                let r = self.role(ope);
+                let c = self.ce(bce, tbox)?;
+                self.kb.concepts.at_most(*n, r, c)
+            }
+            CE::ObjectExactCardinality { n, ope, bce } => {
+                let r = self.role(ope);
+                let c = self.ce(bce, tbox)?;
+                let a = self.kb.concepts.at_least(*n, r, c);
+                let b = self.kb.concepts.at_most(*n, r, c);
+                self.kb.concepts.and([a, b])
+            }
+            CE::DataSomeValuesFrom { dp, dr } => {
+                let p = self.kb.vocab.data_prop(&dp.0);
+                let r = self.data_range(dr)?;
+                self.data_some(p, r)
+            }
+            CE::DataAllValuesFrom { dp, dr } => {
+                let p = self.kb.vocab.data_prop(&dp.0);
+                let r = self.data_range(dr)?;
+                self.data_all(p, r)
+            }
+            CE::DataHasValue { dp, l } => {
+                let p = self.kb.vocab.data_prop(&dp.0);
+                let r = self.literal_range(l)?;
+                self.data_some(p, r)
+            }
+            CE::DataMinCardinality { .. } | CE::DataMaxCardinality { .. } | CE::DataExactCardinality { .. } => {
+                return Err("data cardinality restrictions are not supported".into());
+            }
+        })
+    }
+
+    fn data_range(&mut self, d: &HDataRange<ArcStr>) -> Conv<DataRange> {
+        Ok(match d {
+            HDataRange::Datatype(dt) => datatype_range(&dt.0)?,
+            HDataRange::DataIntersectionOf(xs) => {
+                let mut acc = DataRange::everything();
+                for x in xs {
+                    acc = acc.intersect(&self.data_range(x)?);
+                }
+                acc
+            }
+            HDataRange::DataUnionOf(xs) => {
+                let mut acc = DataRange::empty();
+                for x in xs {
+                    acc = acc.union(&self.data_range(x)?);
+                }
+                acc
+            }
+            HDataRange::DataComplementOf(x) => self.data_range(x)?.complement(),
+            HDataRange::DataOneOf(ls) => {
+                let mut acc = DataRange::empty();
+                for l in ls {
+                    acc = acc.union(&self.literal_range(l)?);
+                }
+                acc
+            }
+            HDataRange::DatatypeRestriction(dt, facets) => {
+                let mut acc = datatype_range(&dt.0)?;
+                for f in facets {
+                    let (_, v) = literal_value(&f.l)?;
+                    let b = |inclusive| Bound { value: v, inclusive };
+                    let inf = Bound { value: f64::INFINITY, inclusive: false };
+                    let ninf = Bound { value: f64::NEG_INFINITY, inclusive: false };
+                    let piece = match f.f {
+                        Facet::MinInclusive => Piece { lo: b(true), hi: inf, kind: Kind::Any },
+                        Facet::MinExclusive => Piece { lo: b(false), hi: inf, kind: Kind::Any },
+                        Facet::MaxInclusive => Piece { lo: ninf, hi: b(true), kind: Kind::Any },
+                        Facet::MaxExclusive => Piece { lo: ninf, hi: b(false), kind: Kind::Any },
+                        _ => return Err(format!("facet {:?} is not supported (only min/max inclusive/exclusive)", f.f)),
+                    };
+                    let mut all = DataRange::empty();
+                    for s in [Space::Decimal, Space::Double, Space::Float] {
+                        all.spaces[s as usize].push(piece);
+                    }
+                    acc = acc.intersect(&all);
+                }
+                acc
+            }
+        })
+    }
+
+    fn literal_range(&mut self, l: &Literal<ArcStr>) -> Conv<DataRange> {
+        let (space, v) = literal_value(l)?;
+        Ok(DataRange::piece(space, Piece::point(v)))
+    }
+}
+
+/// The value range of a built-in datatype.
+fn datatype_range(iri: &str) -> Conv<DataRange> {
+    if iri == RDFS_LITERAL {
+        return Ok(DataRange::everything());
+    }
+    let int = |lo: f64, hi: f64| {
+        DataRange::piece(
+            Space::Decimal,
+            Piece {
+                lo: Bound { value: lo, inclusive: lo.is_finite() },
+                hi: Bound { value: hi, inclusive: hi.is_finite() },
+                kind: Kind::Int,
+            },
+        )
+    };
+    let inf = f64::INFINITY;
+    if let Some(local) = iri.strip_prefix(XSD) {
+        return Ok(match local {
+            "integer" => int(-inf, inf),
+            "nonNegativeInteger" => int(0.0, inf),
+            "positiveInteger" => int(1.0, inf),
+            "nonPositiveInteger" => int(-inf, 0.0),
+            "negativeInteger" => int(-inf, -1.0),
+            "long" => int(-9223372036854775808.0, 9223372036854775807.0),
+            "int" => int(-2147483648.0, 2147483647.0),
+            "short" => int(-32768.0, 32767.0),
+            "byte" => int(-128.0, 127.0),
+            "unsignedLong" => int(0.0, 18446744073709551615.0),
+            "unsignedInt" => int(0.0, 4294967295.0),
+            "unsignedShort" => int(0.0, 65535.0),
+            "unsignedByte" => int(0.0, 255.0),
+            "decimal" => DataRange::space(Space::Decimal, Kind::Any),
+            "double" => DataRange::space(Space::Double, Kind::Any),
+            "float" => DataRange::space(Space::Float, Kind::Any),
+            _ => return Err(format!("datatype xsd:{local} is not supported (numeric types only)")),
+        });
+    }
+    if iri == format!("{OWL}real") || iri == format!("{OWL}rational") {
+        return Ok(DataRange::space(Space::Decimal, Kind::Any));
+    }
+    Err(format!("datatype <{iri}> is not supported (numeric XML Schema types only)"))
+}
+
+/// The value space and number of a numeric literal.
+fn literal_value(l: &Literal<ArcStr>) -> Conv<(Space, f64)> {
+    let (lex, dt) = match l {
+        Literal::Datatype { literal, datatype_iri } => (literal.trim(), datatype_iri.to_string()),
+        Literal::Simple { literal } | Literal::Language { literal, .. } => {
+            return Err(format!("literal \"{literal}\" is a string; only numeric literals are supported"));
+        }
+    };
+    let local = dt.strip_prefix(XSD).unwrap_or("");
+    let bad = || format!("literal \"{lex}\" is not a valid {dt}");
+    let space = match local {
+        "double" => Space::Double,
+        "float" => Space::Float,
+        _ => {
+            let r = datatype_range(&dt)?;
+            if r.spaces[Space::Decimal as usize].is_empty() {
+                return Err(format!("literal of datatype <{dt}> is not numeric"));
+            }
+            Space::Decimal
+        }
+    };
+    let v = match space {
+        Space::Decimal => {
+            let ok = !lex.is_empty()
+                && lex.chars().enumerate().all(|(i, c)| c.is_ascii_digit() || c == '.' || (i == 0 && (c == '+' || c == '-')))
+                && lex.matches('.').count() <= 1
+                && lex.chars().any(|c| c.is_ascii_digit());
+            if !ok {
+                return Err(bad());
+            }
+            let v: f64 = lex.parse().map_err(|_| bad())?;
+            let int_type = datatype_range(&dt)?.spaces[0].iter().all(|p| p.kind == Kind::Int);
+            if int_type && (lex.contains('.') || v.fract() != 0.0) {
+                return Err(bad());
+            }
+            v
+        }
+        _ => match lex {
+            "INF" | "+INF" => f64::INFINITY,
+            "-INF" => f64::NEG_INFINITY,
+            "NaN" => return Err(format!("literal \"{lex}\" (NaN) is not supported")),
+            _ => lex.parse::<f64>().map_err(|_| bad())?,
+        },
+    };
+    Ok((space, v))
+}
+
+fn annotation_text(v: &horned_owl::model::AnnotationValue<ArcStr>) -> (String, String) {
+    use horned_owl::model::AnnotationValue as AV;
+    match v {
+        AV::Literal(Literal::Simple { literal }) => (literal.clone(), String::new()),
+        AV::Literal(Literal::Language { literal, lang }) => (literal.clone(), lang.clone()),
+        AV::Literal(Literal::Datatype { literal, .. }) => (literal.clone(), String::new()),
+        AV::IRI(i) => (i.to_string(), String::new()),
+        AV::AnonymousIndividual(a) => (format!("_:{}", a.0), String::new()),
+    }
+}

@@ -1,6 +1,7 @@
 //! Argument parsing, exit codes and the choice between text and JSON output.
 
 pub mod classify;
+pub mod common;
 pub mod measure;
 
 use clap::{Parser, Subcommand};
@@ -25,7 +26,11 @@ pub enum Format {
 }
 
 #[derive(Parser, Debug)]
-#[command(name = "wherefore", version, about = "Measure, reason, explain and draft reports over labelled medical volumes and OWL 2 knowledge.")]
+#[command(
+    name = "wherefore",
+    version,
+    about = "Measure, reason, explain and draft reports over labelled medical volumes and OWL 2 knowledge."
+)]
 struct Cli {
     #[command(subcommand)]
     command: Command,
@@ -49,7 +54,9 @@ where
         Ok(cli) => cli,
         Err(e) => {
             let code = match e.kind() {
-                clap::error::ErrorKind::DisplayHelp | clap::error::ErrorKind::DisplayVersion => EXIT_OK,
+                clap::error::ErrorKind::DisplayHelp | clap::error::ErrorKind::DisplayVersion => {
+                    EXIT_OK
+                }
                 _ => EXIT_BAD_INPUT,
             };
             let _ = e.print();

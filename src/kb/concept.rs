@@ -8,7 +8,7 @@ use super::{ClassId, DataPropId, IndividualId, RoleId};
 use std::collections::HashMap;
 
 /// Index of a concept in the [`ConceptStore`].
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord)]
+#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord, Default)]
 pub struct ConceptId(pub u32);
 
 impl ConceptId {
@@ -72,7 +72,11 @@ impl Default for ConceptStore {
 impl ConceptStore {
     /// An empty store holding ⊤ and ⊥.
     pub fn new() -> Self {
-        let mut s = ConceptStore { concepts: Vec::new(), negations: Vec::new(), ids: HashMap::new() };
+        let mut s = ConceptStore {
+            concepts: Vec::new(),
+            negations: Vec::new(),
+            ids: HashMap::new(),
+        };
         s.raw(Concept::Top, None);
         s.raw(Concept::Bottom, None);
         s.negations[0] = ConceptId::BOTTOM;
@@ -93,6 +97,11 @@ impl ConceptStore {
     /// The concept behind an id.
     pub fn get(&self, id: ConceptId) -> &Concept {
         &self.concepts[id.index()]
+    }
+
+    /// The id of a concept if it is stored.
+    pub fn find(&self, c: &Concept) -> Option<ConceptId> {
+        self.ids.get(c).copied()
     }
 
     /// The negation (in NNF) of a concept.
@@ -199,8 +208,11 @@ impl ConceptStore {
     }
 
     fn junction(&mut self, parts: Vec<ConceptId>, conj: bool) -> ConceptId {
-        let (unit, zero) =
-            if conj { (ConceptId::TOP, ConceptId::BOTTOM) } else { (ConceptId::BOTTOM, ConceptId::TOP) };
+        let (unit, zero) = if conj {
+            (ConceptId::TOP, ConceptId::BOTTOM)
+        } else {
+            (ConceptId::BOTTOM, ConceptId::TOP)
+        };
         let mut flat = Vec::with_capacity(parts.len());
         let mut stack = parts;
         while let Some(p) = stack.pop() {

@@ -55,19 +55,36 @@ pub struct Piece {
     pub kind: Kind,
 }
 
-const NEG_INF: Bound = Bound { value: f64::NEG_INFINITY, inclusive: false };
-const POS_INF: Bound = Bound { value: f64::INFINITY, inclusive: false };
+const NEG_INF: Bound = Bound {
+    value: f64::NEG_INFINITY,
+    inclusive: false,
+};
+const POS_INF: Bound = Bound {
+    value: f64::INFINITY,
+    inclusive: false,
+};
 
 impl Piece {
     /// The whole space.
     pub fn full(kind: Kind) -> Piece {
-        Piece { lo: NEG_INF, hi: POS_INF, kind }
+        Piece {
+            lo: NEG_INF,
+            hi: POS_INF,
+            kind,
+        }
     }
 
     /// A single value.
     pub fn point(v: f64) -> Piece {
-        let b = Bound { value: v, inclusive: true };
-        Piece { lo: b, hi: b, kind: Kind::Any }
+        let b = Bound {
+            value: v,
+            inclusive: true,
+        };
+        Piece {
+            lo: b,
+            hi: b,
+            kind: Kind::Any,
+        }
     }
 
     fn intersect(&self, o: &Piece) -> Option<Piece> {
@@ -76,20 +93,18 @@ impl Piece {
             (a, b) if a == b => a,
             _ => return None,
         };
-        let lo = if self.lo.value > o.lo.value
-            || (self.lo.value == o.lo.value && !self.lo.inclusive)
-        {
-            self.lo
-        } else {
-            o.lo
-        };
-        let hi = if self.hi.value < o.hi.value
-            || (self.hi.value == o.hi.value && !self.hi.inclusive)
-        {
-            self.hi
-        } else {
-            o.hi
-        };
+        let lo =
+            if self.lo.value > o.lo.value || (self.lo.value == o.lo.value && !self.lo.inclusive) {
+                self.lo
+            } else {
+                o.lo
+            };
+        let hi =
+            if self.hi.value < o.hi.value || (self.hi.value == o.hi.value && !self.hi.inclusive) {
+                self.hi
+            } else {
+                o.hi
+            };
         let p = Piece { lo, hi, kind };
         if p.is_empty() { None } else { Some(p) }
     }
@@ -129,21 +144,33 @@ impl Piece {
         if self.lo.value != f64::NEG_INFINITY {
             out.push(Piece {
                 lo: NEG_INF,
-                hi: Bound { value: self.lo.value, inclusive: !self.lo.inclusive },
+                hi: Bound {
+                    value: self.lo.value,
+                    inclusive: !self.lo.inclusive,
+                },
                 kind: Kind::Any,
             });
         }
         if self.hi.value != f64::INFINITY {
             out.push(Piece {
-                lo: Bound { value: self.hi.value, inclusive: !self.hi.inclusive },
+                lo: Bound {
+                    value: self.hi.value,
+                    inclusive: !self.hi.inclusive,
+                },
                 hi: POS_INF,
                 kind: Kind::Any,
             });
         }
         match self.kind {
             Kind::Any => {}
-            Kind::Int => out.push(Piece { kind: Kind::NonInt, ..*self }),
-            Kind::NonInt => out.push(Piece { kind: Kind::Int, ..*self }),
+            Kind::Int => out.push(Piece {
+                kind: Kind::NonInt,
+                ..*self
+            }),
+            Kind::NonInt => out.push(Piece {
+                kind: Kind::Int,
+                ..*self
+            }),
         }
         out.retain(|p| !p.is_empty());
         out
@@ -168,7 +195,11 @@ impl DataRange {
     /// rdfs:Literal: every literal.
     pub fn everything() -> DataRange {
         DataRange {
-            spaces: [vec![Piece::full(Kind::Any)], vec![Piece::full(Kind::Any)], vec![Piece::full(Kind::Any)]],
+            spaces: [
+                vec![Piece::full(Kind::Any)],
+                vec![Piece::full(Kind::Any)],
+                vec![Piece::full(Kind::Any)],
+            ],
             other: true,
         }
     }
@@ -196,7 +227,10 @@ impl DataRange {
 
     /// Intersection.
     pub fn intersect(&self, o: &DataRange) -> DataRange {
-        let mut r = DataRange { other: self.other && o.other, ..Default::default() };
+        let mut r = DataRange {
+            other: self.other && o.other,
+            ..Default::default()
+        };
         for s in 0..3 {
             for a in &self.spaces[s] {
                 for b in &o.spaces[s] {
@@ -223,7 +257,10 @@ impl DataRange {
 
     /// Complement with respect to all literals.
     pub fn complement(&self) -> DataRange {
-        let mut r = DataRange { other: !self.other, ..Default::default() };
+        let mut r = DataRange {
+            other: !self.other,
+            ..Default::default()
+        };
         for s in 0..3 {
             // Complement of a union is the intersection of the pieces' complements.
             let mut acc = vec![Piece::full(Kind::Any)];
@@ -249,8 +286,20 @@ impl DataRange {
         for s in self.spaces.iter_mut() {
             s.retain(|p| !p.is_empty());
             s.sort_by(|a, b| {
-                (a.lo.value, !a.lo.inclusive, a.hi.value, a.hi.inclusive, a.kind as u8)
-                    .partial_cmp(&(b.lo.value, !b.lo.inclusive, b.hi.value, b.hi.inclusive, b.kind as u8))
+                (
+                    a.lo.value,
+                    !a.lo.inclusive,
+                    a.hi.value,
+                    a.hi.inclusive,
+                    a.kind as u8,
+                )
+                    .partial_cmp(&(
+                        b.lo.value,
+                        !b.lo.inclusive,
+                        b.hi.value,
+                        b.hi.inclusive,
+                        b.kind as u8,
+                    ))
                     .unwrap_or(std::cmp::Ordering::Equal)
             });
             s.dedup();
@@ -301,7 +350,17 @@ mod tests {
     fn int_range(lo: f64, lo_inc: bool, hi: f64, hi_inc: bool) -> DataRange {
         DataRange::piece(
             Space::Decimal,
-            Piece { lo: Bound { value: lo, inclusive: lo_inc }, hi: Bound { value: hi, inclusive: hi_inc }, kind: Kind::Int },
+            Piece {
+                lo: Bound {
+                    value: lo,
+                    inclusive: lo_inc,
+                },
+                hi: Bound {
+                    value: hi,
+                    inclusive: hi_inc,
+                },
+                kind: Kind::Int,
+            },
         )
     }
 
@@ -318,11 +377,24 @@ mod tests {
     fn decimal_is_dense() {
         let d = DataRange::piece(
             Space::Decimal,
-            Piece { lo: Bound { value: 3.0, inclusive: false }, hi: Bound { value: 4.0, inclusive: false }, kind: Kind::Any },
+            Piece {
+                lo: Bound {
+                    value: 3.0,
+                    inclusive: false,
+                },
+                hi: Bound {
+                    value: 4.0,
+                    inclusive: false,
+                },
+                kind: Kind::Any,
+            },
         );
         assert!(!d.is_empty());
         // The non-integers of (3, 4) are all of it, so integer ∩ (3,4) is empty.
-        assert!(d.intersect(&DataRange::space(Space::Decimal, Kind::Int)).is_empty());
+        assert!(
+            d.intersect(&DataRange::space(Space::Decimal, Kind::Int))
+                .is_empty()
+        );
     }
 
     #[test]
@@ -330,13 +402,27 @@ mod tests {
         let a = int_range(0.0, true, 10.0, true);
         let c = a.complement();
         assert!(a.intersect(&c).is_empty());
-        assert!(c.complement().intersect(&a.complement()).intersect(&a).is_empty());
+        assert!(
+            c.complement()
+                .intersect(&a.complement())
+                .intersect(&a)
+                .is_empty()
+        );
         // 5.5 is in the complement (non-integer), 5 is not.
-        assert!(!c.intersect(&DataRange::piece(Space::Decimal, Piece::point(5.5))).is_empty());
-        assert!(c.intersect(&DataRange::piece(Space::Decimal, Piece::point(5.0))).is_empty());
+        assert!(
+            !c.intersect(&DataRange::piece(Space::Decimal, Piece::point(5.5)))
+                .is_empty()
+        );
+        assert!(
+            c.intersect(&DataRange::piece(Space::Decimal, Piece::point(5.0)))
+                .is_empty()
+        );
         // Doubles and decimals are disjoint value spaces (OWL 2 Structural Specification §4.2).
         let dbl = DataRange::space(Space::Double, Kind::Any);
-        assert!(dbl.intersect(&DataRange::space(Space::Decimal, Kind::Any)).is_empty());
+        assert!(
+            dbl.intersect(&DataRange::space(Space::Decimal, Kind::Any))
+                .is_empty()
+        );
         assert!(!dbl.intersect(&c).is_empty());
     }
 }

@@ -21,7 +21,7 @@ pub const OWL_NOTHING: &str = "http://www.w3.org/2002/07/owl#Nothing";
 macro_rules! id_type {
     ($(#[$m:meta])* $name:ident) => {
         $(#[$m])*
-        #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord)]
+        #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord, serde::Serialize, Default)]
         pub struct $name(pub u32);
         impl $name {
             /// Index for array look-ups.
@@ -124,7 +124,9 @@ impl Vocabulary {
     }
     /// Looks up an individual by IRI.
     pub fn find_individual(&self, iri: &str) -> Option<IndividualId> {
-        self.individuals.get_index_of(iri).map(|i| IndividualId(i as u32))
+        self.individuals
+            .get_index_of(iri)
+            .map(|i| IndividualId(i as u32))
     }
 }
 
@@ -250,8 +252,17 @@ impl KnowledgeBase {
     }
 
     /// Adds a source axiom record and returns its index.
-    pub fn add_source(&mut self, text: String, file: String, annotations: Vec<(String, String)>) -> usize {
-        self.sources.push(SourceAxiom { text, file, annotations });
+    pub fn add_source(
+        &mut self,
+        text: String,
+        file: String,
+        annotations: Vec<(String, String)>,
+    ) -> usize {
+        self.sources.push(SourceAxiom {
+            text,
+            file,
+            annotations,
+        });
         self.sources.len() - 1
     }
 

@@ -4,15 +4,16 @@
 
 use super::datarange::{Bound, DataRange, Kind, Piece, Space};
 use super::{AnnotationValue, Axiom, ConceptId, IndividualId, KbError, KnowledgeBase, RoleId};
-use horned_owl::io::ofn::writer::AsFunctional;
 use horned_owl::io::RDFParserConfiguration;
-use horned_owl::vocab::Facet;
+use horned_owl::io::ofn::writer::AsFunctional;
 use horned_owl::io::{ParserConfiguration, ResourceType};
 use horned_owl::model::{
-    AnnotatedComponent, AnnotationSubject, ArcStr, Build, ClassExpression as CE, Component, DataRange as HDataRange,
-    Individual, Literal, ObjectPropertyExpression as OPE, SubObjectPropertyExpression,
+    AnnotatedComponent, AnnotationSubject, ArcStr, Build, ClassExpression as CE, Component,
+    DataRange as HDataRange, Individual, Literal, ObjectPropertyExpression as OPE,
+    SubObjectPropertyExpression,
 };
 use horned_owl::ontology::set::SetOntology;
+use horned_owl::vocab::Facet;
 use std::collections::BTreeSet;
 use std::path::{Path, PathBuf};
 
@@ -44,7 +45,11 @@ pub fn load(paths: &[PathBuf], opts: &LoadOptions) -> Result<KnowledgeBase, KbEr
 }
 
 /// Loads ontology files (and their imports) into an existing knowledge base.
-pub fn load_into(kb: &mut KnowledgeBase, paths: &[PathBuf], opts: &LoadOptions) -> Result<(), KbError> {
+pub fn load_into(
+    kb: &mut KnowledgeBase,
+    paths: &[PathBuf],
+    opts: &LoadOptions,
+) -> Result<(), KbError> {
     // Parse every given file first, so that imports naming one of them resolve to it.
     let mut given: Vec<(PathBuf, Parsed)> = Vec::new();
     for p in paths {
@@ -63,7 +68,12 @@ pub fn load_into(kb: &mut KnowledgeBase, paths: &[PathBuf], opts: &LoadOptions) 
     let given_iris: Vec<Option<String>> = given.iter().map(|(_, p)| p.iri.clone()).collect();
     let mut queue: Vec<(PathBuf, Parsed, Vec<String>)> = Vec::new();
     for (p, parsed) in given {
-        let chain = vec![parsed.iri.clone().unwrap_or_else(|| p.display().to_string())];
+        let chain = vec![
+            parsed
+                .iri
+                .clone()
+                .unwrap_or_else(|| p.display().to_string()),
+        ];
         queue.push((p, parsed, chain));
     }
     let mut idx = 0;
@@ -79,7 +89,11 @@ pub fn load_into(kb: &mut KnowledgeBase, paths: &[PathBuf], opts: &LoadOptions) 
                     chain: format!("{} -> {}", chain.join(" -> "), imp),
                 });
             }
-            if loaded_iris.contains(&imp) || given_iris.iter().any(|g| g.as_deref() == Some(imp.as_str())) {
+            if loaded_iris.contains(&imp)
+                || given_iris
+                    .iter()
+                    .any(|g| g.as_deref() == Some(imp.as_str()))
+            {
                 continue;
             }
             match resolve_import(&imp, &path, &opts.import_dirs) {
@@ -88,7 +102,8 @@ pub fn load_into(kb: &mut KnowledgeBase, paths: &[PathBuf], opts: &LoadOptions) 
                     if loaded_paths.contains(&key) {
                         // The same file under another IRI: a cycle when it is on the chain.
                         if queue.iter().any(|(qp, qparsed, _)| {
-                            canonical(qp) == key && qparsed.iri.as_ref().is_some_and(|i| chain.contains(i))
+                            canonical(qp) == key
+                                && qparsed.iri.as_ref().is_some_and(|i| chain.contains(i))
                         }) {
                             return Err(KbError::ImportCycle {
                                 file: path.display().to_string(),
@@ -129,10 +144,16 @@ pub fn load_into(kb: &mut KnowledgeBase, paths: &[PathBuf], opts: &LoadOptions) 
     for (path, parsed, _) in queue {
         let file = path.display().to_string();
         kb.files.push(file.clone());
-        let mut conv = Converter { kb, file, lenient: opts.lenient };
+        let mut conv = Converter {
+            kb,
+            file,
+            lenient: opts.lenient,
+        };
         conv.convert_all(&parsed.components)?;
     }
-    kb.signature_classes = (0..kb.vocab.classes.len() as u32).map(super::ClassId).collect();
+    kb.signature_classes = (0..kb.vocab.classes.len() as u32)
+        .map(super::ClassId)
+        .collect();
     Ok(())
 }
 
@@ -148,7 +169,11 @@ fn resolve_import(iri: &str, importer: &Path, dirs: &[PathBuf]) -> Option<PathBu
             return Some(p);
         }
     }
-    let last = iri.trim_end_matches(['/', '#']).rsplit(['/', '#', ':']).next().unwrap_or("");
+    let last = iri
+        .trim_end_matches(['/', '#'])
+        .rsplit(['/', '#', ':'])
+        .next()
+        .unwrap_or("");
     if last.is_empty() {
         return None;
     }
@@ -160,7 +185,11 @@ fn resolve_import(iri: &str, importer: &Path, dirs: &[PathBuf]) -> Option<PathBu
     }
     let mut folders: Vec<PathBuf> = Vec::new();
     if let Some(parent) = importer.parent() {
-        folders.push(if parent.as_os_str().is_empty() { PathBuf::from(".") } else { parent.to_path_buf() });
+        folders.push(if parent.as_os_str().is_empty() {
+            PathBuf::from(".")
+        } else {
+            parent.to_path_buf()
+        });
     }
     folders.extend(dirs.iter().cloned());
     for f in folders {
@@ -177,7 +206,10 @@ fn resolve_import(iri: &str, importer: &Path, dirs: &[PathBuf]) -> Option<PathBu
 /// Reads and parses one file, telling the syntax from its content.
 fn parse_file(path: &Path) -> Result<Parsed, KbError> {
     let file = path.display().to_string();
-    let bytes = std::fs::read(path).map_err(|e| KbError::Unreadable { file: file.clone(), reason: e.to_string() })?;
+    let bytes = std::fs::read(path).map_err(|e| KbError::Unreadable {
+        file: file.clone(),
+        reason: e.to_string(),
+    })?;
     if bytes.iter().all(|b| b.is_ascii_whitespace()) {
         return Err(KbError::Syntax {
             file,
@@ -207,8 +239,15 @@ fn parse_file(path: &Path) -> Result<Parsed, KbError> {
     // into an error value rather than a crash.
     let handle = std::thread::Builder::new()
         .stack_size(256 << 20)
-        .spawn(move || -> Result<(SetOntology<ArcStr>, Vec<String>), String> { parse_text(&text, kind, rdf_format) })
-        .map_err(|e| KbError::Syntax { file: file2.clone(), reason: format!("cannot start the parser: {e}") })?;
+        .spawn(
+            move || -> Result<(SetOntology<ArcStr>, Vec<String>), String> {
+                parse_text(&text, kind, rdf_format)
+            },
+        )
+        .map_err(|e| KbError::Syntax {
+            file: file2.clone(),
+            reason: format!("cannot start the parser: {e}"),
+        })?;
     let (ont, incomplete) = match handle.join() {
         Ok(Ok(x)) => x,
         Ok(Err(reason)) => return Err(KbError::Syntax { file, reason }),
@@ -225,7 +264,12 @@ fn parse_file(path: &Path) -> Result<Parsed, KbError> {
             reason: format!(
                 "the RDF/XML parser could not read {} part(s) as OWL 2 (undeclared entities or malformed constructs), first: {}. Declare the entities (owl:Class, owl:ObjectProperty, …) or fix the triples.",
                 incomplete.len(),
-                incomplete.iter().take(3).cloned().collect::<Vec<_>>().join("; ")
+                incomplete
+                    .iter()
+                    .take(3)
+                    .cloned()
+                    .collect::<Vec<_>>()
+                    .join("; ")
             ),
         });
     }
@@ -242,7 +286,11 @@ fn parse_file(path: &Path) -> Result<Parsed, KbError> {
             _ => {}
         }
     }
-    Ok(Parsed { components, iri, imports })
+    Ok(Parsed {
+        components,
+        iri,
+        imports,
+    })
 }
 
 fn parse_text(
@@ -293,7 +341,6 @@ fn parse_text(
     }
 }
 
-
 struct Converter<'a> {
     kb: &'a mut KnowledgeBase,
     file: String,
@@ -306,8 +353,11 @@ impl Converter<'_> {
     fn convert_all(&mut self, comps: &[AnnotatedComponent<ArcStr>]) -> Result<(), KbError> {
         for ac in comps {
             let text = ac.component.as_functional().to_string();
-            let anns: Vec<(String, String)> =
-                ac.ann.iter().map(|a| (a.ap.0.to_string(), annotation_text(&a.av).0)).collect();
+            let anns: Vec<(String, String)> = ac
+                .ann
+                .iter()
+                .map(|a| (a.ap.0.to_string(), annotation_text(&a.av).0))
+                .collect();
             let start = self.kb.axioms.len();
             let src = self.kb.sources.len();
             match self.component(&ac.component, src) {
@@ -318,10 +368,16 @@ impl Converter<'_> {
                 Err(reason) => {
                     self.kb.axioms.truncate(start);
                     if self.lenient {
-                        self.kb.warnings.push(format!("{}: dropped {} ({})", self.file, text, reason));
+                        self.kb
+                            .warnings
+                            .push(format!("{}: dropped {} ({})", self.file, text, reason));
                         self.kb.incomplete = true;
                     } else {
-                        return Err(KbError::Unsupported { file: self.file.clone(), axiom: text, reason });
+                        return Err(KbError::Unsupported {
+                            file: self.file.clone(),
+                            axiom: text,
+                            reason,
+                        });
                     }
                 }
             }
@@ -366,7 +422,9 @@ impl Converter<'_> {
                     .push(AnnotationValue { value, lang });
                 Ok(false)
             }
-            C::SubAnnotationPropertyOf(_) | C::AnnotationPropertyDomain(_) | C::AnnotationPropertyRange(_) => Ok(false),
+            C::SubAnnotationPropertyOf(_)
+            | C::AnnotationPropertyDomain(_)
+            | C::AnnotationPropertyRange(_) => Ok(false),
             C::SubClassOf(ax) => {
                 if let CE::ObjectOneOf(inds) = &ax.sub {
                     // {a₁,…,aₙ} ⊑ C holds exactly when each C(aᵢ) does.
@@ -376,24 +434,33 @@ impl Converter<'_> {
                     }
                     return Ok(true);
                 }
-                let sub = self.ce(&ax.sub, true)?;
-                let sup = self.ce(&ax.sup, true)?;
+                let sub = self.ce(&ax.sub)?;
+                let sup = self.ce(&ax.sup)?;
                 self.kb.push(Axiom::SubClass(sub, sup), src);
                 Ok(true)
             }
             C::EquivalentClasses(ax) => {
-                let cs = ax.0.iter().map(|e| self.ce(e, true)).collect::<Conv<Vec<_>>>()?;
+                let cs =
+                    ax.0.iter()
+                        .map(|e| self.ce(e))
+                        .collect::<Conv<Vec<_>>>()?;
                 self.kb.push(Axiom::Equivalent(cs), src);
                 Ok(true)
             }
             C::DisjointClasses(ax) => {
-                let cs = ax.0.iter().map(|e| self.ce(e, true)).collect::<Conv<Vec<_>>>()?;
+                let cs =
+                    ax.0.iter()
+                        .map(|e| self.ce(e))
+                        .collect::<Conv<Vec<_>>>()?;
                 self.kb.push(Axiom::Disjoint(cs), src);
                 Ok(true)
             }
             C::DisjointUnion(ax) => {
                 let a = self.class_concept(&ax.0.0);
-                let cs = ax.1.iter().map(|e| self.ce(e, true)).collect::<Conv<Vec<_>>>()?;
+                let cs =
+                    ax.1.iter()
+                        .map(|e| self.ce(e))
+                        .collect::<Conv<Vec<_>>>()?;
                 self.kb.push(Axiom::DisjointUnion(a, cs), src);
                 Ok(true)
             }
@@ -427,13 +494,13 @@ impl Converter<'_> {
             }
             C::ObjectPropertyDomain(ax) => {
                 let r = self.role(&ax.ope);
-                let c = self.ce(&ax.ce, true)?;
+                let c = self.ce(&ax.ce)?;
                 self.kb.push(Axiom::Domain(r, c), src);
                 Ok(true)
             }
             C::ObjectPropertyRange(ax) => {
                 let r = self.role(&ax.ope);
-                let c = self.ce(&ax.ce, true)?;
+                let c = self.ce(&ax.ce)?;
                 self.kb.push(Axiom::Domain(r.inverse(), c), src);
                 Ok(true)
             }
@@ -458,9 +525,13 @@ impl Converter<'_> {
                 Ok(true)
             }
             C::ReflexiveObjectProperty(_) => Err("reflexive properties are outside SHIQ".into()),
-            C::IrreflexiveObjectProperty(_) => Err("irreflexive properties are outside SHIQ".into()),
+            C::IrreflexiveObjectProperty(_) => {
+                Err("irreflexive properties are outside SHIQ".into())
+            }
             C::AsymmetricObjectProperty(_) => Err("asymmetric properties are outside SHIQ".into()),
-            C::DisjointObjectProperties(_) => Err("disjoint object properties are outside SHIQ".into()),
+            C::DisjointObjectProperties(_) => {
+                Err("disjoint object properties are outside SHIQ".into())
+            }
             C::SubDataPropertyOf(ax) => {
                 let a = self.kb.vocab.data_prop(&ax.sub.0);
                 let b = self.kb.vocab.data_prop(&ax.sup.0);
@@ -475,10 +546,12 @@ impl Converter<'_> {
                 }
                 Ok(true)
             }
-            C::DisjointDataProperties(_) => Err("disjoint data properties are not supported".into()),
+            C::DisjointDataProperties(_) => {
+                Err("disjoint data properties are not supported".into())
+            }
             C::DataPropertyDomain(ax) => {
                 let p = self.kb.vocab.data_prop(&ax.dp.0);
-                let c = self.ce(&ax.ce, true)?;
+                let c = self.ce(&ax.ce)?;
                 self.kb.push(Axiom::DataDomain(p, c), src);
                 Ok(true)
             }
@@ -581,13 +654,13 @@ impl Converter<'_> {
                     Ok(())
                 }
                 _ => {
-                    let c = self.ce(ce, false)?;
+                    let c = self.ce(ce)?;
                     self.kb.push(Axiom::ClassAssertion(c, a), src);
                     Ok(())
                 }
             },
             _ => {
-                let c = self.ce(ce, false)?;
+                let c = self.ce(ce)?;
                 self.kb.push(Axiom::ClassAssertion(c, a), src);
                 Ok(())
             }
@@ -615,7 +688,10 @@ impl Converter<'_> {
     fn individual(&mut self, i: &Individual<ArcStr>) -> IndividualId {
         match i {
             Individual::Named(n) => self.kb.vocab.individual(&n.0),
-            Individual::Anonymous(a) => self.kb.vocab.individual(&format!("_:{}#{}", self.file, a.0)),
+            Individual::Anonymous(a) => self
+                .kb
+                .vocab
+                .individual(&format!("_:{}#{}", self.file, a.0)),
         }
     }
 
@@ -633,21 +709,26 @@ impl Converter<'_> {
         self.kb.concepts.data_all(p, a, b)
     }
 
-    /// Translates a class expression into a concept in NNF. `tbox` marks TBox positions,
-    /// where surviving nominals are recorded.
-    fn ce(&mut self, e: &CE<ArcStr>, tbox: bool) -> Conv<ConceptId> {
+    /// Translates a class expression into a concept in NNF.
+    fn ce(&mut self, e: &CE<ArcStr>) -> Conv<ConceptId> {
         Ok(match e {
             CE::Class(c) => self.class_concept(&c.0),
             CE::ObjectIntersectionOf(xs) => {
-                let v = xs.iter().map(|x| self.ce(x, tbox)).collect::<Conv<Vec<_>>>()?;
+                let v = xs
+                    .iter()
+                    .map(|x| self.ce(x))
+                    .collect::<Conv<Vec<_>>>()?;
                 self.kb.concepts.and(v)
             }
             CE::ObjectUnionOf(xs) => {
-                let v = xs.iter().map(|x| self.ce(x, tbox)).collect::<Conv<Vec<_>>>()?;
+                let v = xs
+                    .iter()
+                    .map(|x| self.ce(x))
+                    .collect::<Conv<Vec<_>>>()?;
                 self.kb.concepts.or(v)
             }
             CE::ObjectComplementOf(x) => {
-                let c = self.ce(x, tbox)?;
+                let c = self.ce(x)?;
                 self.kb.concepts.not(c)
             }
             CE::ObjectOneOf(is) => {
@@ -666,12 +747,12 @@ impl Converter<'_> {
             }
             CE::ObjectSomeValuesFrom { ope, bce } => {
                 let r = self.role(ope);
-                let c = self.ce(bce, tbox)?;
+                let c = self.ce(bce)?;
                 self.kb.concepts.some(r, c)
             }
             CE::ObjectAllValuesFrom { ope, bce } => {
                 let r = self.role(ope);
-                let c = self.ce(bce, tbox)?;
+                let c = self.ce(bce)?;
                 self.kb.concepts.all(r, c)
             }
             CE::ObjectHasValue { ope, i } => {
@@ -684,17 +765,17 @@ impl Converter<'_> {
             CE::ObjectHasSelf(_) => return Err("self restrictions are outside SHIQ".into()),
             CE::ObjectMinCardinality { n, ope, bce } => {
                 let r = self.role(ope);
-                let c = self.ce(bce, tbox)?;
+                let c = self.ce(bce)?;
                 self.kb.concepts.at_least(*n, r, c)
             }
             CE::ObjectMaxCardinality { n, ope, bce } => {
                 let r = self.role(ope);
-                let c = self.ce(bce, tbox)?;
+                let c = self.ce(bce)?;
                 self.kb.concepts.at_most(*n, r, c)
             }
             CE::ObjectExactCardinality { n, ope, bce } => {
                 let r = self.role(ope);
-                let c = self.ce(bce, tbox)?;
+                let c = self.ce(bce)?;
                 let a = self.kb.concepts.at_least(*n, r, c);
                 let b = self.kb.concepts.at_most(*n, r, c);
                 self.kb.concepts.and([a, b])
@@ -714,7 +795,9 @@ impl Converter<'_> {
                 let r = self.literal_range(l)?;
                 self.data_some(p, r)
             }
-            CE::DataMinCardinality { .. } | CE::DataMaxCardinality { .. } | CE::DataExactCardinality { .. } => {
+            CE::DataMinCardinality { .. }
+            | CE::DataMaxCardinality { .. }
+            | CE::DataExactCardinality { .. } => {
                 return Err("data cardinality restrictions are not supported".into());
             }
         })
@@ -749,15 +832,45 @@ impl Converter<'_> {
                 let mut acc = datatype_range(&dt.0)?;
                 for f in facets {
                     let (_, v) = literal_value(&f.l)?;
-                    let b = |inclusive| Bound { value: v, inclusive };
-                    let inf = Bound { value: f64::INFINITY, inclusive: false };
-                    let ninf = Bound { value: f64::NEG_INFINITY, inclusive: false };
+                    let b = |inclusive| Bound {
+                        value: v,
+                        inclusive,
+                    };
+                    let inf = Bound {
+                        value: f64::INFINITY,
+                        inclusive: false,
+                    };
+                    let ninf = Bound {
+                        value: f64::NEG_INFINITY,
+                        inclusive: false,
+                    };
                     let piece = match f.f {
-                        Facet::MinInclusive => Piece { lo: b(true), hi: inf, kind: Kind::Any },
-                        Facet::MinExclusive => Piece { lo: b(false), hi: inf, kind: Kind::Any },
-                        Facet::MaxInclusive => Piece { lo: ninf, hi: b(true), kind: Kind::Any },
-                        Facet::MaxExclusive => Piece { lo: ninf, hi: b(false), kind: Kind::Any },
-                        _ => return Err(format!("facet {:?} is not supported (only min/max inclusive/exclusive)", f.f)),
+                        Facet::MinInclusive => Piece {
+                            lo: b(true),
+                            hi: inf,
+                            kind: Kind::Any,
+                        },
+                        Facet::MinExclusive => Piece {
+                            lo: b(false),
+                            hi: inf,
+                            kind: Kind::Any,
+                        },
+                        Facet::MaxInclusive => Piece {
+                            lo: ninf,
+                            hi: b(true),
+                            kind: Kind::Any,
+                        },
+                        Facet::MaxExclusive => Piece {
+                            lo: ninf,
+                            hi: b(false),
+                            kind: Kind::Any,
+                        },
+                        _ => {
+                            return Err(format!(
+                                "facet {:?} is not supported (only min/max inclusive/exclusive)",
+                                f.f
+                            ));
+                        }
                     };
                     let mut all = DataRange::empty();
                     for s in [Space::Decimal, Space::Double, Space::Float] {
@@ -785,8 +898,14 @@ fn datatype_range(iri: &str) -> Conv<DataRange> {
         DataRange::piece(
             Space::Decimal,
             Piece {
-                lo: Bound { value: lo, inclusive: lo.is_finite() },
-                hi: Bound { value: hi, inclusive: hi.is_finite() },
+                lo: Bound {
+                    value: lo,
+                    inclusive: lo.is_finite(),
+                },
+                hi: Bound {
+                    value: hi,
+                    inclusive: hi.is_finite(),
+                },
                 kind: Kind::Int,
             },
         )
@@ -810,21 +929,32 @@ fn datatype_range(iri: &str) -> Conv<DataRange> {
             "decimal" => DataRange::space(Space::Decimal, Kind::Any),
             "double" => DataRange::space(Space::Double, Kind::Any),
             "float" => DataRange::space(Space::Float, Kind::Any),
-            _ => return Err(format!("datatype xsd:{local} is not supported (numeric types only)")),
+            _ => {
+                return Err(format!(
+                    "datatype xsd:{local} is not supported (numeric types only)"
+                ));
+            }
         });
     }
     if iri == format!("{OWL}real") || iri == format!("{OWL}rational") {
         return Ok(DataRange::space(Space::Decimal, Kind::Any));
     }
-    Err(format!("datatype <{iri}> is not supported (numeric XML Schema types only)"))
+    Err(format!(
+        "datatype <{iri}> is not supported (numeric XML Schema types only)"
+    ))
 }
 
 /// The value space and number of a numeric literal.
 fn literal_value(l: &Literal<ArcStr>) -> Conv<(Space, f64)> {
     let (lex, dt) = match l {
-        Literal::Datatype { literal, datatype_iri } => (literal.trim(), datatype_iri.to_string()),
+        Literal::Datatype {
+            literal,
+            datatype_iri,
+        } => (literal.trim(), datatype_iri.to_string()),
         Literal::Simple { literal } | Literal::Language { literal, .. } => {
-            return Err(format!("literal \"{literal}\" is a string; only numeric literals are supported"));
+            return Err(format!(
+                "literal \"{literal}\" is a string; only numeric literals are supported"
+            ));
         }
     };
     let local = dt.strip_prefix(XSD).unwrap_or("");
@@ -843,14 +973,18 @@ fn literal_value(l: &Literal<ArcStr>) -> Conv<(Space, f64)> {
     let v = match space {
         Space::Decimal => {
             let ok = !lex.is_empty()
-                && lex.chars().enumerate().all(|(i, c)| c.is_ascii_digit() || c == '.' || (i == 0 && (c == '+' || c == '-')))
+                && lex.chars().enumerate().all(|(i, c)| {
+                    c.is_ascii_digit() || c == '.' || (i == 0 && (c == '+' || c == '-'))
+                })
                 && lex.matches('.').count() <= 1
                 && lex.chars().any(|c| c.is_ascii_digit());
             if !ok {
                 return Err(bad());
             }
             let v: f64 = lex.parse().map_err(|_| bad())?;
-            let int_type = datatype_range(&dt)?.spaces[0].iter().all(|p| p.kind == Kind::Int);
+            let int_type = datatype_range(&dt)?.spaces[0]
+                .iter()
+                .all(|p| p.kind == Kind::Int);
             if int_type && (lex.contains('.') || v.fract() != 0.0) {
                 return Err(bad());
             }

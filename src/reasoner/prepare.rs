@@ -1,0 +1,406 @@
+//! Preprocessing of the axioms for the tableau: the role hierarchy, absorption of GCIs into
+//! lazily unfolded atoms and roles (DL Handbook ch. 9, Horrocks 2003, §9.4), and the
+//! internalised remainder.
+
+use crate::kb::{
+    Axiom, Concept, ConceptId, ConceptStore, DataPropId, DataRangeId, IndividualId, KnowledgeBase,
+    RoleId,
+};
+
+/// Why the reasoner refuses a knowledge base.
+#[derive(Debug, Clone, PartialEq, Eq)]
+pub struct Refusal {
+    /// The source axiom's text, when one is to blame.
+    pub axiom: Option<String>,
+    /// What is outside the supported logic.
+    pub reason: String,
+}
+
+/// The axioms in the form the tableau consumes.
+#[derive(Clone, Debug, Default)]
+pub struct Prepared {
+    /// Number of roles (twice the number of named properties).
+    pub n_roles: usize,
+    /// `sub[s * n_roles + r]`: s ⊑* r (reflexive-transitive closure, closed under inverse).
+    pub sub: Vec<bool>,
+    /// For each role s, the roles r with s ⊑* r.
+    pub supers: Vec<Vec<RoleId>>,
+    /// Transitive roles.
+    pub transitive: Vec<bool>,
+    /// For each role r: concepts added to x when x has an r-neighbour (domains, functional).
+    pub triggers: Vec<Vec<ConceptId>>,
+    /// For each concept id of an atom: concepts added with it (absorbed GCIs).
+    pub unfold: Vec<Vec<ConceptId>>,
+    /// Concept added to every node (internalised GCIs), ⊤ when none.
+    pub universal: ConceptId,
+    /// Data property closure: `data_supers[p]` holds q with p ⊑* q.
+    pub data_supers: Vec<Vec<DataPropId>>,
+    /// Functional data properties.
+    pub data_functional: Vec<bool>,
+    /// Data ranges per property (from range axioms).
+    pub data_ranges: Vec<Vec<DataRangeId>>,
+    /// Concepts added when a node has a value for the data property (domains).
+    pub data_triggers: Vec<Vec<ConceptId>>,
+    /// ABox: class assertions.
+    pub class_assertions: Vec<(ConceptId, IndividualId)>,
+    /// ABox: role assertions.
+    pub role_assertions: Vec<(RoleId, IndividualId, IndividualId)>,
+    /// ABox: equalities.
+    pub same: Vec<(IndividualId, IndividualId)>,
+    /// ABox: inequalities.
+    pub different: Vec<(IndividualId, IndividualId)>,
+    /// Number of individuals.
+    pub n_individuals: usize,
+    /// Whether nominals appear in the TBox (then ABox individuals take part in concept tests).
+    pub tbox_nominals: bool,
+    /// Told subsumers of each atom (by concept id), for classification.
+    pub told: Vec<Vec<ConceptId>>,
+    /// Roles that are simple (no transitive sub-role).
+    pub simple: Vec<bool>,
+}
+
+impl Prepared {
+    /// Whether s ⊑* r.
+    pub fn is_sub(&self, s: RoleId, r: RoleId) -> bool {
+        self.sub[s.index() * self.n_roles + r.index()]
+    }
+}
+
+/// Builds the prepared form from the axioms of `kb` that `enabled` selects (all when `None`).
+/// New concepts are interned into `concepts`.
+pub fn prepare(
+    kb: &KnowledgeBase,
+    concepts: &mut ConceptStore,
+    enabled: Option<&[bool]>,
+    extra: &[Axiom],
+) -> Result<Prepared, Refusal> {
+    let n_props = kb.vocab.props.len();
+    let n_roles = 2 * n_props;
+    let n_dp = kb.vocab.data_props.len();
+    let mut p = Prepared {
+        n_roles,
+        sub: vec![false; n_roles * n_roles],
+        transitive: vec![false; n_roles],
+        triggers: vec![Vec::new(); n_roles],
+        data_supers: vec![Vec::new(); n_dp],
+        data_functional: vec![false; n_dp],
+        data_ranges: vec![Vec::new(); n_dp],
+        data_triggers: vec![Vec::new(); n_dp],
+        n_individuals: kb.vocab.individuals.len(),
+        universal: ConceptId::TOP,
+        ..Default::default()
+    };
+    let axioms: Vec<(&Axiom, Option<usize>)> = kb
+        .axioms
+        .iter()
+        .enumerate()
+        .filter(|(i, _)| enabled.is_none_or(|m| m.get(*i).copied().unwrap_or(true)))
+        .map(|(_, a)| (&a.axiom, Some(a.source)))
+        .chain(extra.iter().map(|a| (a, None)))
+        .collect();
+
+    // Role hierarchy.
+    for r in 0..n_roles {
+        p.sub[r * n_roles + r] = true;
+    }
+    let mut data_sub = vec![false; n_dp * n_dp];
+    for d in 0..n_dp {
+        data_sub[d * n_dp + d] = true;
+    }
+    for (a, _) in &axioms {
+        match a {
+            Axiom::SubRole(s, r) => {
+                p.sub[s.index() * n_roles + r.index()] = true;
+                p.sub[s.inverse().index() * n_roles + r.inverse().index()] = true;
+            }
+            Axiom::Transitive(r) => {
+                p.transitive[r.index()] = true;
+                p.transitive[r.inverse().index()] = true;
+            }
+            Axiom::SubDataProp(a, b) => data_sub[a.index() * n_dp + b.index()] = true,
+            Axiom::FunctionalData(d) => p.data_functional[d.index()] = true,
+            _ => {}
+        }
+    }
+    warshall(&mut p.sub, n_roles);
+    warshall(&mut data_sub, n_dp);
+    p.supers = (0..n_roles)
+        .map(|s| {
+            (0..n_roles)
+                .filter(|&r| p.sub[s * n_roles + r])
+                .map(|r| RoleId(r as u32))
+                .collect()
+        })
+        .collect();
+    p.data_supers = (0..n_dp)
+        .map(|a| {
+            (0..n_dp)
+                .filter(|&b| data_sub[a * n_dp + b])
+                .map(|b| DataPropId(b as u32))
+                .collect()
+        })
+        .collect();
+    p.simple = (0..n_roles)
+        .map(|r| !(0..n_roles).any(|s| p.transitive[s] && p.sub[s * n_roles + r]))
+        .collect();
+
+    // Check the logic: number restrictions only on simple roles; nominals only where handled.
+    let mut has_at_most = false;
+    let mut tbox_nominals = false;
+    for (a, src) in &axioms {
+        let text = || src.map(|s| kb.sources[s].text.clone());
+        let roots: Vec<ConceptId> = match a {
+            Axiom::SubClass(c, d) => vec![*c, *d],
+            Axiom::Equivalent(cs) | Axiom::Disjoint(cs) => cs.clone(),
+            Axiom::DisjointUnion(c, cs) => std::iter::once(*c).chain(cs.iter().copied()).collect(),
+            Axiom::Domain(_, c) | Axiom::DataDomain(_, c) => vec![*c],
+            Axiom::ClassAssertion(c, _) => vec![*c],
+            Axiom::Functional(r) => {
+                has_at_most = true;
+                if !p.simple[r.index()] {
+                    return Err(Refusal {
+                        axiom: text(),
+                        reason: "a functional property must be simple (no transitive sub-property) in SHIQ".into(),
+                    });
+                }
+                vec![]
+            }
+            _ => vec![],
+        };
+        let is_tbox = !matches!(a, Axiom::ClassAssertion(..));
+        for c in roots {
+            let mut stack = vec![c];
+            let mut seen = std::collections::HashSet::new();
+            while let Some(x) = stack.pop() {
+                if !seen.insert(x) {
+                    continue;
+                }
+                match concepts.get(x).clone() {
+                    Concept::And(xs) | Concept::Or(xs) => stack.extend(xs),
+                    Concept::Some(_, f) => {
+                        if let Concept::Nominal(_) = concepts.get(f) {
+                            if is_tbox {
+                                tbox_nominals = true;
+                            }
+                        } else {
+                            stack.push(f);
+                        }
+                    }
+                    Concept::All(_, f) => {
+                        if let Concept::NotNominal(_) = concepts.get(f) {
+                        } else {
+                            stack.push(f);
+                        }
+                    }
+                    Concept::AtLeast(_, r, f) | Concept::AtMost(_, r, f) => {
+                        has_at_most = true;
+                        if !p.simple[r.index()] {
+                            return Err(Refusal {
+                                axiom: text(),
+                                reason: "number restriction on a non-simple property (one that is transitive or has a transitive sub-property)".into(),
+                            });
+                        }
+                        stack.push(f);
+                    }
+                    Concept::Nominal(_) => {
+                        return Err(Refusal {
+                            axiom: text(),
+                            reason: "an enumeration (ObjectOneOf) used as a class in the TBox needs a reasoner with full nominal support; only ObjectHasValue fillers and ABox uses are handled".into(),
+                        });
+                    }
+                    Concept::NotNominal(_) => {}
+                    _ => {}
+                }
+            }
+        }
+    }
+    if tbox_nominals && has_at_most {
+        return Err(Refusal {
+            axiom: None,
+            reason: "ObjectHasValue in the TBox together with number restrictions or functional properties needs SHOIQ, which this reasoner does not implement".into(),
+        });
+    }
+    p.tbox_nominals = tbox_nominals;
+
+    // Absorption.
+    let mut gcis: Vec<(ConceptId, ConceptId)> = Vec::new();
+    for (a, _) in &axioms {
+        match a {
+            Axiom::SubClass(c, d) => gcis.push((*c, *d)),
+            Axiom::Equivalent(cs) => {
+                for w in cs.windows(2) {
+                    gcis.push((w[0], w[1]));
+                    gcis.push((w[1], w[0]));
+                }
+            }
+            Axiom::Disjoint(cs) => {
+                for i in 0..cs.len() {
+                    for j in i + 1..cs.len() {
+                        let nj = concepts.not(cs[j]);
+                        gcis.push((cs[i], nj));
+                    }
+                }
+            }
+            Axiom::DisjointUnion(c, cs) => {
+                let u = concepts.or(cs.iter().copied());
+                gcis.push((*c, u));
+                gcis.push((u, *c));
+                for i in 0..cs.len() {
+                    for j in i + 1..cs.len() {
+                        let nj = concepts.not(cs[j]);
+                        gcis.push((cs[i], nj));
+                    }
+                }
+            }
+            Axiom::Domain(r, c) => p.triggers[r.index()].push(*c),
+            Axiom::Functional(r) => {
+                let f = concepts.at_most(1, *r, ConceptId::TOP);
+                p.triggers[r.index()].push(f);
+            }
+            Axiom::DataDomain(d, c) => p.data_triggers[d.index()].push(*c),
+            Axiom::DataRangeAxiom(d, r) => p.data_ranges[d.index()].push(*r),
+            Axiom::ClassAssertion(c, a) => p.class_assertions.push((*c, *a)),
+            Axiom::RoleAssertion(r, a, b) => p.role_assertions.push((*r, *a, *b)),
+            Axiom::NegativeRoleAssertion(r, a, b) => {
+                let nb = concepts.nominal(*b);
+                let nnb = concepts.not(nb);
+                let c = concepts.all(*r, nnb);
+                p.class_assertions.push((c, *a));
+            }
+            Axiom::Same(xs) => {
+                for w in xs.windows(2) {
+                    p.same.push((w[0], w[1]));
+                }
+            }
+            Axiom::Different(xs) => {
+                for i in 0..xs.len() {
+                    for j in i + 1..xs.len() {
+                        p.different.push((xs[i], xs[j]));
+                    }
+                }
+            }
+            _ => {}
+        }
+    }
+    let mut universal: Vec<ConceptId> = Vec::new();
+    let mut i = 0;
+    while i < gcis.len() {
+        let (c, d) = gcis[i];
+        i += 1;
+        absorb(c, d, concepts, &mut p, &mut universal, &mut gcis);
+    }
+    p.universal = concepts.and(universal);
+    let n = concepts.len();
+    p.unfold.resize(n, Vec::new());
+    for u in p.unfold.iter_mut() {
+        u.sort_unstable();
+        u.dedup();
+    }
+    for t in p.triggers.iter_mut() {
+        t.sort_unstable();
+        t.dedup();
+    }
+    // Told subsumers: atoms among the conjuncts of what each atom unfolds to.
+    p.told = vec![Vec::new(); n];
+    for a in 0..n {
+        if !matches!(concepts.get(ConceptId(a as u32)), Concept::Atom(_)) {
+            continue;
+        }
+        let mut told = Vec::new();
+        for &d in &p.unfold[a] {
+            match concepts.get(d) {
+                Concept::Atom(_) => told.push(d),
+                Concept::And(xs) => told.extend(
+                    xs.iter()
+                        .copied()
+                        .filter(|x| matches!(concepts.get(*x), Concept::Atom(_))),
+                ),
+                _ => {}
+            }
+        }
+        p.told[a] = told;
+    }
+    Ok(p)
+}
+
+/// Absorbs C ⊑ D: into an atom of C when C has one, into a role when C is ∃r.X (as
+/// X ⊑ ∀r⁻.D), split over unions; otherwise internalised as ⊤ ⊑ ¬C ⊔ D.
+fn absorb(
+    c: ConceptId,
+    d: ConceptId,
+    concepts: &mut ConceptStore,
+    p: &mut Prepared,
+    universal: &mut Vec<ConceptId>,
+    gcis: &mut Vec<(ConceptId, ConceptId)>,
+) {
+    if d == ConceptId::TOP || c == ConceptId::BOTTOM {
+        return;
+    }
+    let push_unfold = |p: &mut Prepared, a: ConceptId, x: ConceptId| {
+        if p.unfold.len() <= a.index() {
+            p.unfold.resize(a.index() + 1, Vec::new());
+        }
+        p.unfold[a.index()].push(x);
+    };
+    match concepts.get(c).clone() {
+        Concept::Top => universal.push(d),
+        Concept::Atom(_) => push_unfold(p, c, d),
+        Concept::Or(xs) => {
+            for x in xs {
+                gcis.push((x, d));
+            }
+        }
+        Concept::And(xs) => {
+            if let Some(&a) = xs
+                .iter()
+                .find(|&&x| matches!(concepts.get(x), Concept::Atom(_)))
+            {
+                let rest: Vec<ConceptId> = xs.iter().copied().filter(|&x| x != a).collect();
+                let r = concepts.and(rest);
+                let nr = concepts.not(r);
+                let e = concepts.or([nr, d]);
+                push_unfold(p, a, e);
+            } else if let Some(&s) = xs
+                .iter()
+                .find(|&&x| matches!(concepts.get(x), Concept::Some(..)))
+            {
+                // (∃r.X ⊓ Rest) ⊑ D  ⇔  ∃r.X ⊑ ¬Rest ⊔ D.
+                let rest: Vec<ConceptId> = xs.iter().copied().filter(|&x| x != s).collect();
+                let r = concepts.and(rest);
+                let nr = concepts.not(r);
+                let e = concepts.or([nr, d]);
+                gcis.push((s, e));
+            } else {
+                let nc = concepts.not(c);
+                universal.push(concepts.or([nc, d]));
+            }
+        }
+        Concept::Some(r, x) => {
+            if x == ConceptId::TOP {
+                p.triggers[r.index()].push(d);
+            } else {
+                // ∃r.X ⊑ D  ⇔  X ⊑ ∀r⁻.D.
+                let all = concepts.all(r.inverse(), d);
+                gcis.push((x, all));
+            }
+        }
+        _ => {
+            let nc = concepts.not(c);
+            universal.push(concepts.or([nc, d]));
+        }
+    }
+}
+
+fn warshall(m: &mut [bool], n: usize) {
+    for k in 0..n {
+        for i in 0..n {
+            if m[i * n + k] {
+                for j in 0..n {
+                    if m[k * n + j] {
+                        m[i * n + j] = true;
+                    }
+                }
+            }
+        }
+    }
+}

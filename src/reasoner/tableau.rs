@@ -1,0 +1,1062 @@
+//! The completion-graph tableau for SHIQ (Horrocks, Sattler & Tobies 1999/2000) with
+//! numeric data ranges, ABox root nodes and ObjectHasValue fillers.
+//!
+//! One solver state, declared parts: the completion [`Graph`] (copied at branching points,
+//! which is the trail), the branching stack, the dependency table and statistics.
+//! Optimisations: lazy unfolding of absorbed axioms, semantic branching with boolean
+//! constraint propagation, dependency-directed backjumping, pairwise blocking.
+
+use super::depset::{Dep, DepTable};
+use super::prepare::Prepared;
+use super::{Extra, Limit, Limits, Stats};
+use crate::kb::datarange::DataRange;
+use crate::kb::{Concept, ConceptId, ConceptStore, DataRangeStore, IndividualId, RoleId};
+use std::collections::{HashMap, VecDeque};
+
+type NodeId = usize;
+type EdgeId = usize;
+
+#[derive(Clone, Debug, Default)]
+struct Node {
+    label: Vec<ConceptId>,
+    deps: HashMap<ConceptId, Dep>,
+    hash: u64,
+    parent: Option<NodeId>,
+    names: Vec<IndividualId>,
+    active: bool,
+    merged_into: Option<NodeId>,
+    edges: Vec<EdgeId>,
+    cursor: usize,
+    in_queue: bool,
+    ors: Vec<ConceptId>,
+    gens: Vec<ConceptId>,
+    at_mosts: Vec<ConceptId>,
+    alls: Vec<ConceptId>,
+    data_dirty: bool,
+}
+
+impl Node {
+    fn is_root(&self) -> bool {
+        self.parent.is_none()
+    }
+}
+
+#[derive(Clone, Debug)]
+struct Edge {
+    a: NodeId,
+    b: NodeId,
+    roles: Vec<(RoleId, Dep)>,
+    active: bool,
+}
+
+/// The completion graph.
+#[derive(Clone, Debug, Default)]
+struct Graph {
+    nodes: Vec<Node>,
+    edges: Vec<Edge>,
+    ineq: Vec<(NodeId, NodeId, Dep)>,
+    queue: VecDeque<NodeId>,
+    ind_node: Vec<NodeId>,
+}
+
+#[derive(Clone, Debug)]
+enum Choice {
+    Add {
+        node: NodeId,
+        options: Vec<ConceptId>,
+    },
+    Merge {
+        options: Vec<(NodeId, NodeId)>,
+    },
+}
+
+#[derive(Debug)]
+struct Branch {
+    snapshot: Graph,
+    level: u32,
+    choice: Choice,
+    next: usize,
+    base: Dep,
+    failed: Vec<Dep>,
+    acc: Dep,
+}
+
+/// What a tableau run found.
+#[derive(Debug)]
+pub enum Outcome {
+    /// A complete, clash-free graph: a model exists.
+    Sat(Model),
+    /// Every branch clashed.
+    Unsat,
+    /// A limit stopped the search.
+    Unknown(Limit),
+}
+
+/// A model read off a complete completion graph, restricted to named individuals.
+#[derive(Clone, Debug, Default)]
+pub struct Model {
+    /// For each individual: the concepts in its node's label.
+    pub labels: Vec<Vec<ConceptId>>,
+    /// Role edges between named individuals (as stored, one direction each).
+    pub edges: Vec<(RoleId, IndividualId, IndividualId)>,
+    /// For a concept test: the label of the root node.
+    pub root_label: Vec<ConceptId>,
+}
+
+/// The tableau state.
+pub struct Tableau<'a> {
+    prep: &'a Prepared,
+    concepts: &'a mut ConceptStore,
+    ranges: &'a DataRangeStore,
+    deps: DepTable,
+    g: Graph,
+    stack: Vec<Branch>,
+    clash: Option<Dep>,
+    next_level: u32,
+    limits: Limits,
+    /// Counters for `--stats` and benchmarks.
+    pub stats: Stats,
+    query_root: Option<NodeId>,
+}
+
+impl<'a> Tableau<'a> {
+    /// A fresh tableau over prepared axioms.
+    pub fn new(
+        prep: &'a Prepared,
+        concepts: &'a mut ConceptStore,
+        ranges: &'a DataRangeStore,
+        limits: Limits,
+    ) -> Self {
+        Tableau {
+            prep,
+            concepts,
+            ranges,
+            deps: DepTable::default(),
+            g: Graph::default(),
+            stack: Vec::new(),
+            clash: None,
+            next_level: 1,
+            limits,
+            stats: Stats::default(),
+            query_root: None,
+        }
+    }
+
+    /// Decides satisfiability of the ABox (when `with_abox`) together with a fresh individual
+    /// in `query` (when given).
+    pub fn run(&mut self, with_abox: bool, query: Option<ConceptId>, extra: &Extra) -> Outcome {
+        self.init(with_abox, query);
+        for &(c, a) in &extra.classes {
+            let n = self.ind(a);
+            self.add(n, c, Dep::EMPTY);
+        }
+        for &(r, a, b) in &extra.roles {
+            let (x, y) = (self.ind(a), self.ind(b));
+            self.add_edge(x, y, r, Dep::EMPTY);
+        }
+        self.search()
+    }
+
+    fn new_node(&mut self, parent: Option<NodeId>) -> NodeId {
+        let id = self.g.nodes.len();
+        self.g.nodes.push(Node {
+            parent,
+            active: true,
+            ..Default::default()
+        });
+        self.stats.nodes += 1;
+        id
+    }
+
+    fn init(&mut self, with_abox: bool, query: Option<ConceptId>) {
+        let p = self.prep;
+        let u = p.universal;
+        if with_abox {
+            for i in 0..p.n_individuals {
+                let n = self.new_node(None);
+                self.g.nodes[n].names.push(IndividualId(i as u32));
+                self.g.ind_node.push(n);
+            }
+            for i in 0..p.n_individuals {
+                let nom = self.concepts.nominal(IndividualId(i as u32));
+                self.add(i, nom, Dep::EMPTY);
+                self.add(i, u, Dep::EMPTY);
+            }
+            for &(c, a) in &p.class_assertions {
+                let n = self.ind(a);
+                self.add(n, c, Dep::EMPTY);
+            }
+            for &(r, a, b) in &p.role_assertions {
+                let (x, y) = (self.ind(a), self.ind(b));
+                self.add_edge(x, y, r, Dep::EMPTY);
+            }
+            for &(a, b) in &p.same {
+                let (x, y) = (self.ind(a), self.ind(b));
+                if x != y {
+                    self.merge(y, x, Dep::EMPTY);
+                }
+            }
+            for &(a, b) in &p.different {
+                let (x, y) = (self.ind(a), self.ind(b));
+                if x == y {
+                    self.clash = Some(Dep::EMPTY);
+                } else {
+                    self.g.ineq.push((x, y, Dep::EMPTY));
+                }
+            }
+        }
+        if let Some(q) = query {
+            let n = self.new_node(None);
+            self.query_root = Some(n);
+            self.add(n, q, Dep::EMPTY);
+            self.add(n, u, Dep::EMPTY);
+        }
+    }
+
+    fn ind(&self, a: IndividualId) -> NodeId {
+        self.find(self.g.ind_node[a.index()])
+    }
+
+    fn find(&self, mut x: NodeId) -> NodeId {
+        while let Some(y) = self.g.nodes[x].merged_into {
+            x = y;
+        }
+        x
+    }
+
+    fn has(&self, x: NodeId, c: ConceptId) -> Option<Dep> {
+        self.g.nodes[x].deps.get(&c).copied()
+    }
+
+    /// Adds a concept to a node's label, detecting clashes on the way in.
+    fn add(&mut self, x: NodeId, c: ConceptId, dep: Dep) {
+        if c == ConceptId::TOP || self.g.nodes[x].deps.contains_key(&c) {
+            return;
+        }
+        if c == ConceptId::BOTTOM {
+            self.set_clash(dep);
+            return;
+        }
+        let nc = self.concepts.not(c);
+        if let Some(d2) = self.has(x, nc) {
+            let d = self.deps.union(dep, d2);
+            self.set_clash(d);
+            return;
+        }
+        let concept = self.concepts.get(c).clone();
+        if let Concept::NotNominal(a) = concept
+            && self.g.nodes[x].names.contains(&a) {
+                self.set_clash(dep);
+                return;
+            }
+        let node = &mut self.g.nodes[x];
+        node.label.push(c);
+        node.deps.insert(c, dep);
+        node.hash = node.hash.wrapping_add(mix(c.0 as u64));
+        match concept {
+            Concept::Or(_) => node.ors.push(c),
+            Concept::Some(..) | Concept::AtLeast(..) => node.gens.push(c),
+            Concept::AtMost(..) => node.at_mosts.push(c),
+            Concept::All(..) => node.alls.push(c),
+            Concept::DataSome(..) | Concept::DataAll(..) => node.data_dirty = true,
+            _ => {}
+        }
+        if !node.in_queue {
+            node.in_queue = true;
+            self.g.queue.push_back(x);
+        }
+    }
+
+    fn set_clash(&mut self, d: Dep) {
+        if self.clash.is_none() {
+            self.clash = Some(d);
+        }
+    }
+
+    /// The neighbours of x: (node, role as seen from x, dependency of the edge role).
+    fn neighbours(&self, x: NodeId) -> Vec<(NodeId, RoleId, Dep)> {
+        let mut out = Vec::new();
+        for &e in &self.g.nodes[x].edges {
+            let edge = &self.g.edges[e];
+            if !edge.active {
+                continue;
+            }
+            for &(r, d) in &edge.roles {
+                if edge.a == x {
+                    out.push((edge.b, r, d));
+                }
+                if edge.b == x {
+                    out.push((edge.a, r.inverse(), d));
+                }
+            }
+        }
+        out
+    }
+
+    /// Adds role r on the edge x → y and fires the rules that a new edge enables.
+    fn add_edge(&mut self, x: NodeId, y: NodeId, r: RoleId, dep: Dep) {
+        let existing = self.g.nodes[x].edges.iter().copied().find(|&e| {
+            let ed = &self.g.edges[e];
+            ed.active && ((ed.a == x && ed.b == y) || (ed.a == y && ed.b == x))
+        });
+        let (e, oriented) = match existing {
+            Some(e) => {
+                let r2 = if self.g.edges[e].a == x {
+                    r
+                } else {
+                    r.inverse()
+                };
+                if self.g.edges[e].roles.iter().any(|&(s, _)| s == r2) {
+                    return;
+                }
+                (e, r2)
+            }
+            None => {
+                let e = self.g.edges.len();
+                self.g.edges.push(Edge {
+                    a: x,
+                    b: y,
+                    roles: Vec::new(),
+                    active: true,
+                });
+                self.g.nodes[x].edges.push(e);
+                if x != y {
+                    self.g.nodes[y].edges.push(e);
+                }
+                (e, r)
+            }
+        };
+        self.g.edges[e].roles.push((oriented, dep));
+        self.fire_edge(x, y, r, dep);
+        if x == y {
+            self.fire_edge(x, x, r.inverse(), dep);
+        } else {
+            self.fire_edge(y, x, r.inverse(), dep);
+        }
+        for n in [x, y] {
+            if !self.g.nodes[n].in_queue {
+                self.g.nodes[n].in_queue = true;
+                self.g.queue.push_back(n);
+            }
+        }
+    }
+
+    /// x has a new r-neighbour y: apply x's universal restrictions and r's triggers.
+    fn fire_edge(&mut self, x: NodeId, y: NodeId, r: RoleId, dep: Dep) {
+        let p = self.prep;
+        for q in &p.supers[r.index()] {
+            for &t in &p.triggers[q.index()] {
+                self.add(x, t, dep);
+            }
+        }
+        let alls = self.g.nodes[x].alls.clone();
+        for c in alls {
+            if let Concept::All(s, f) = *self.concepts.get(c)
+                && p.is_sub(r, s) {
+                    let dc = self.has(x, c).unwrap_or(Dep::EMPTY);
+                    let d = self.deps.union(dep, dc);
+                    self.add(y, f, d);
+                    self.all_plus(y, r, s, f, d);
+                }
+        }
+    }
+
+    /// The ∀⁺ rule: ∀s.C at x, Trans(t), t ⊑* s, y a t-neighbour: ∀t.C at y.
+    fn all_plus(&mut self, y: NodeId, via: RoleId, s: RoleId, f: ConceptId, d: Dep) {
+        let p = self.prep;
+        for &t in &p.supers[via.index()] {
+            if p.transitive[t.index()] && p.is_sub(t, s) {
+                let c = self.concepts.all(t, f);
+                self.add(y, c, d);
+            }
+        }
+    }
+
+    /// Applies deterministic rules to queued nodes until none is left or a clash occurs.
+    fn expand_deterministic(&mut self) {
+        while self.clash.is_none() {
+            let Some(x) = self.g.queue.pop_front() else {
+                return;
+            };
+            self.g.nodes[x].in_queue = false;
+            if !self.g.nodes[x].active {
+                continue;
+            }
+            while self.clash.is_none() && self.g.nodes[x].cursor < self.g.nodes[x].label.len() {
+                let i = self.g.nodes[x].cursor;
+                self.g.nodes[x].cursor += 1;
+                let c = self.g.nodes[x].label[i];
+                let dep = self.g.nodes[x].deps[&c];
+                self.stats.expansions += 1;
+                self.expand_one(x, c, dep);
+                if !self.g.nodes[x].active {
+                    break;
+                }
+            }
+        }
+    }
+
+    fn expand_one(&mut self, x: NodeId, c: ConceptId, dep: Dep) {
+        let p = self.prep;
+        match self.concepts.get(c).clone() {
+            Concept::And(xs) => {
+                for y in xs {
+                    self.add(x, y, dep);
+                }
+            }
+            Concept::Atom(_) => {
+                if let Some(us) = p.unfold.get(c.index()) {
+                    for &u in us {
+                        self.add(x, u, dep);
+                    }
+                }
+            }
+            Concept::All(r, f) => {
+                for (y, s, ed) in self.neighbours(x) {
+                    if p.is_sub(s, r) {
+                        let d = self.deps.union(dep, ed);
+                        self.add(y, f, d);
+                        self.all_plus(y, s, r, f, d);
+                    }
+                }
+            }
+            Concept::DataSome(dp, _) => {
+                for q in &p.data_supers[dp.index()] {
+                    for &t in &p.data_triggers[q.index()] {
+                        self.add(x, t, dep);
+                    }
+                }
+            }
+            _ => {}
+        }
+    }
+
+    /// Checks the data constraints of every node whose data concepts changed.
+    fn check_data(&mut self) {
+        for x in 0..self.g.nodes.len() {
+            if self.clash.is_some() {
+                return;
+            }
+            if !self.g.nodes[x].active || !self.g.nodes[x].data_dirty {
+                continue;
+            }
+            self.g.nodes[x].data_dirty = false;
+            self.check_data_node(x);
+        }
+    }
+
+    fn check_data_node(&mut self, x: NodeId) {
+        let p = self.prep;
+        let mut somes = Vec::new();
+        let mut alls = Vec::new();
+        for &c in &self.g.nodes[x].label {
+            match *self.concepts.get(c) {
+                Concept::DataSome(dp, r) => somes.push((dp, r, self.g.nodes[x].deps[&c])),
+                Concept::DataAll(dp, r) => alls.push((dp, r, self.g.nodes[x].deps[&c])),
+                _ => {}
+            }
+        }
+        if somes.is_empty() {
+            return;
+        }
+        let mut all_dep = Dep::EMPTY;
+        for &(_, _, d) in &alls {
+            all_dep = self.deps.union(all_dep, d);
+        }
+        // The range each value must lie in.
+        let eff: Vec<DataRange> = somes
+            .iter()
+            .map(|&(dp, r, _)| {
+                let mut acc = self.ranges.get(r).clone();
+                for &(q, e, _) in &alls {
+                    if p.data_supers[dp.index()].contains(&q) {
+                        acc = acc.intersect(self.ranges.get(e));
+                    }
+                }
+                for q in &p.data_supers[dp.index()] {
+                    for &rr in &p.data_ranges[q.index()] {
+                        acc = acc.intersect(self.ranges.get(rr));
+                    }
+                }
+                acc
+            })
+            .collect();
+        // Values of properties under a common functional property coincide.
+        let n = somes.len();
+        let mut group: Vec<usize> = (0..n).collect();
+        fn root(g: &mut [usize], mut i: usize) -> usize {
+            while g[i] != i {
+                g[i] = g[g[i]];
+                i = g[i];
+            }
+            i
+        }
+        for i in 0..n {
+            for j in i + 1..n {
+                let shared = p.data_supers[somes[i].0.index()].iter().any(|q| {
+                    p.data_functional[q.index()] && p.data_supers[somes[j].0.index()].contains(q)
+                });
+                if shared {
+                    let (a, b) = (root(&mut group, i), root(&mut group, j));
+                    group[a] = b;
+                }
+            }
+        }
+        for g in 0..n {
+            let mut acc: Option<DataRange> = None;
+            let mut d = all_dep;
+            for i in 0..n {
+                if root(&mut group, i) == g {
+                    acc = Some(match acc {
+                        None => eff[i].clone(),
+                        Some(a) => a.intersect(&eff[i]),
+                    });
+                    d = self.deps.union(d, somes[i].2);
+                }
+            }
+            if let Some(a) = acc
+                && a.is_empty() {
+                    self.set_clash(d);
+                    return;
+                }
+        }
+    }
+
+    /// Whether x or one of its ancestors is blocked (pairwise blocking, Horrocks, Sattler &
+    /// Tobies 1999): a tree node x with parent x' is blocked by an ancestor y with parent y'
+    /// when L(x)=L(y), L(x')=L(y') and the edges x'→x and y'→y carry the same roles.
+    fn blocked_all(&self) -> Vec<bool> {
+        let n = self.g.nodes.len();
+        let mut blocked = vec![false; n];
+        for x in 0..n {
+            let node = &self.g.nodes[x];
+            if !node.active || node.is_root() {
+                continue;
+            }
+            let xp = node.parent.expect("tree node has a parent");
+            if blocked[xp] {
+                blocked[x] = true;
+                continue;
+            }
+            let ex = self.edge_roles(xp, x);
+            let mut y = xp;
+            while let Some(yp) = self.g.nodes[y].parent {
+                if self.same_label(x, y) && self.same_label(xp, yp) && self.edge_roles(yp, y) == ex
+                {
+                    blocked[x] = true;
+                    break;
+                }
+                y = yp;
+            }
+        }
+        blocked
+    }
+
+    fn same_label(&self, a: NodeId, b: NodeId) -> bool {
+        let (x, y) = (&self.g.nodes[a], &self.g.nodes[b]);
+        x.hash == y.hash
+            && x.label.len() == y.label.len()
+            && x.label.iter().all(|c| y.deps.contains_key(c))
+    }
+
+    fn edge_roles(&self, from: NodeId, to: NodeId) -> Vec<RoleId> {
+        let mut v: Vec<RoleId> = self
+            .neighbours(from)
+            .into_iter()
+            .filter(|&(y, _, _)| y == to)
+            .map(|(_, r, _)| r)
+            .collect();
+        v.sort_unstable();
+        v.dedup();
+        v
+    }
+
+    fn distinct(&self, a: NodeId, b: NodeId) -> Option<Dep> {
+        self.g
+            .ineq
+            .iter()
+            .find(|&&(x, y, _)| (x == a && y == b) || (x == b && y == a))
+            .map(|&(_, _, d)| d)
+    }
+
+    /// The r-neighbours of x carrying C (or all when `c` is `None`), with the dependency of
+    /// the edge, one entry per node.
+    fn r_neighbours(&self, x: NodeId, r: RoleId) -> Vec<(NodeId, Dep)> {
+        let p = self.prep;
+        let mut out: Vec<(NodeId, Dep)> = Vec::new();
+        for (y, s, d) in self.neighbours(x) {
+            if p.is_sub(s, r) && !out.iter().any(|&(z, _)| z == y) {
+                out.push((y, d));
+            }
+        }
+        out
+    }
+
+    /// Looks for a non-deterministic rule to apply: choose, ≤ and ⊔. Returns whether one
+    /// applied (or a clash was found).
+    fn nondeterministic(&mut self, indirectly_blocked: &[bool]) -> bool {
+        // ≤ and choose rules.
+        for x in 0..self.g.nodes.len() {
+            if !self.g.nodes[x].active || self.is_indirectly_blocked(x, indirectly_blocked) {
+                continue;
+            }
+            for c in self.g.nodes[x].at_mosts.clone() {
+                let Concept::AtMost(n, r, f) = *self.concepts.get(c) else {
+                    continue;
+                };
+                let dc = self.g.nodes[x].deps[&c];
+                let nbrs = self.r_neighbours(x, r);
+                if f != ConceptId::TOP {
+                    let nf = self.concepts.not(f);
+                    for &(y, _) in &nbrs {
+                        if self.has(y, f).is_none() && self.has(y, nf).is_none() {
+                            self.stats.branches += 1;
+                            self.branch(
+                                Choice::Add {
+                                    node: y,
+                                    options: vec![f, nf],
+                                },
+                                dc,
+                            );
+                            return true;
+                        }
+                    }
+                }
+                let with: Vec<(NodeId, Dep)> = nbrs
+                    .iter()
+                    .filter_map(|&(y, ed)| self.has(y, f).map(|fd| (y, self.deps_union(ed, fd))))
+                    .collect();
+                if with.len() as u64 <= n as u64 {
+                    continue;
+                }
+                let mut base = dc;
+                for &(_, d) in &with {
+                    base = self.deps.union(base, d);
+                }
+                let mut pairs = Vec::new();
+                for i in 0..with.len() {
+                    for j in i + 1..with.len() {
+                        let (y, z) = (with[i].0, with[j].0);
+                        match self.distinct(y, z) {
+                            Some(d) => base = self.deps.union(base, d),
+                            None => pairs.push(self.merge_order(x, y, z)),
+                        }
+                    }
+                }
+                if pairs.is_empty() {
+                    self.set_clash(base);
+                    return true;
+                }
+                self.stats.branches += 1;
+                self.branch(Choice::Merge { options: pairs }, base);
+                return true;
+            }
+        }
+        // ⊔ rule with boolean constraint propagation.
+        for x in 0..self.g.nodes.len() {
+            if !self.g.nodes[x].active || self.is_indirectly_blocked(x, indirectly_blocked) {
+                continue;
+            }
+            for c in self.g.nodes[x].ors.clone() {
+                let Concept::Or(xs) = self.concepts.get(c).clone() else {
+                    continue;
+                };
+                if xs.iter().any(|&d| self.has(x, d).is_some()) {
+                    continue;
+                }
+                let mut base = self.g.nodes[x].deps[&c];
+                let mut open = Vec::new();
+                for &d in &xs {
+                    let nd = self.concepts.not(d);
+                    match self.has(x, nd) {
+                        Some(dd) => base = self.deps.union(base, dd),
+                        None => open.push(d),
+                    }
+                }
+                match open.len() {
+                    0 => self.set_clash(base),
+                    1 => self.add(x, open[0], base),
+                    _ => {
+                        self.stats.branches += 1;
+                        self.branch(
+                            Choice::Add {
+                                node: x,
+                                options: open,
+                            },
+                            base,
+                        );
+                    }
+                }
+                return true;
+            }
+        }
+        false
+    }
+
+    fn deps_union(&mut self, a: Dep, b: Dep) -> Dep {
+        self.deps.union(a, b)
+    }
+
+    fn is_indirectly_blocked(&self, x: NodeId, blocked: &[bool]) -> bool {
+        match self.g.nodes[x].parent {
+            Some(p) => p < blocked.len() && blocked[p],
+            None => false,
+        }
+    }
+
+    /// Orders a merge pair (from, into): into a root, else into x's predecessor, else into the
+    /// older node.
+    fn merge_order(&self, x: NodeId, y: NodeId, z: NodeId) -> (NodeId, NodeId) {
+        let (ny, nz) = (&self.g.nodes[y], &self.g.nodes[z]);
+        if !ny.names.is_empty() && nz.names.is_empty() {
+            return (z, y);
+        }
+        if !nz.names.is_empty() && ny.names.is_empty() {
+            return (y, z);
+        }
+        if self.g.nodes[x].parent == Some(y) {
+            return (z, y);
+        }
+        if self.g.nodes[x].parent == Some(z) {
+            return (y, z);
+        }
+        if y < z { (z, y) } else { (y, z) }
+    }
+
+    fn branch(&mut self, choice: Choice, base: Dep) {
+        let level = self.next_level;
+        self.next_level += 1;
+        self.stack.push(Branch {
+            snapshot: self.g.clone(),
+            level,
+            choice,
+            next: 0,
+            base,
+            failed: Vec::new(),
+            acc: Dep::EMPTY,
+        });
+        self.apply_alternative();
+    }
+
+    /// Applies the current alternative of the top branching point; the last one is applied
+    /// deterministically with the dependencies of the failures before it.
+    fn apply_alternative(&mut self) {
+        let top = self.stack.last().expect("a branching point");
+        let level = top.level;
+        let i = top.next;
+        let choice = top.choice.clone();
+        let failed = top.failed.clone();
+        let n = match &choice {
+            Choice::Add { options, .. } => options.len(),
+            Choice::Merge { options } => options.len(),
+        };
+        let last = i + 1 == n;
+        let dep = if last {
+            let top = self.stack.pop().expect("a branching point");
+            self.deps.union(top.base, top.acc)
+        } else {
+            let s = self.deps.single(level);
+            let b = self.stack.last().expect("a branching point").base;
+            self.deps.union(s, b)
+        };
+        match choice {
+            Choice::Add { node, options } => {
+                // Semantic branching: the options tried before are false here.
+                for (j, &o) in options.iter().enumerate().take(i) {
+                    let no = self.concepts.not(o);
+                    self.add(node, no, failed[j]);
+                }
+                self.add(node, options[i], dep);
+            }
+            Choice::Merge { options } => {
+                let (y, z) = options[i];
+                let (y, z) = (self.find(y), self.find(z));
+                if y != z {
+                    if let Some(d) = self.distinct(y, z) {
+                        let dd = self.deps.union(d, dep);
+                        self.set_clash(dd);
+                    } else {
+                        self.stats.merges += 1;
+                        self.merge(y, z, dep);
+                    }
+                }
+            }
+        }
+    }
+
+    /// Backtracks after a clash: jumps over branching points the clash does not depend on.
+    /// Returns false when no alternative is left (unsatisfiable).
+    fn backtrack(&mut self, clash: Dep) -> bool {
+        loop {
+            let Some(top) = self.stack.last_mut() else {
+                return false;
+            };
+            if !self.deps.contains(clash, top.level) {
+                self.stats.backjumps += 1;
+                self.stack.pop();
+                continue;
+            }
+            let level = top.level;
+            let rest = self.deps.remove(clash, level);
+            let top = self.stack.last_mut().expect("top");
+            top.failed.push(rest);
+            let acc = top.acc;
+            let acc2 = self.deps.union(acc, rest);
+            let top = self.stack.last_mut().expect("top");
+            top.acc = acc2;
+            top.next += 1;
+            self.g = top.snapshot.clone();
+            self.clash = None;
+            self.apply_alternative();
+            return true;
+        }
+    }
+
+    /// Merges node y into z (the ≤-rule's Merge, Horrocks, Sattler & Tobies 2000).
+    fn merge(&mut self, y: NodeId, z: NodeId, dep: Dep) {
+        let label: Vec<(ConceptId, Dep)> = self.g.nodes[y]
+            .label
+            .iter()
+            .map(|c| (*c, self.g.nodes[y].deps[c]))
+            .collect();
+        let names = std::mem::take(&mut self.g.nodes[y].names);
+        self.g.nodes[z].names.extend(names);
+        let edges = self.g.nodes[y].edges.clone();
+        let mut moved: Vec<(NodeId, RoleId, Dep)> = Vec::new();
+        for e in edges {
+            if !self.g.edges[e].active {
+                continue;
+            }
+            let (a, b) = (self.g.edges[e].a, self.g.edges[e].b);
+            let roles = self.g.edges[e].roles.clone();
+            self.g.edges[e].active = false;
+            let other = if a == y { b } else { a };
+            if other != y
+                && self.g.nodes[other].parent == Some(y)
+                && self.g.nodes[other].names.is_empty()
+            {
+                self.prune(other);
+                continue;
+            }
+            for (r, d) in roles {
+                let d = self.deps.union(d, dep);
+                if a == y && b == y {
+                    moved.push((z, r, d));
+                } else if a == y {
+                    moved.push((b, r, d));
+                } else {
+                    moved.push((a, r.inverse(), d));
+                }
+            }
+        }
+        self.g.nodes[y].active = false;
+        self.g.nodes[y].merged_into = Some(z);
+        for (c, d) in label {
+            let d = self.deps.union(d, dep);
+            self.add(z, c, d);
+        }
+        for (other, r, d) in moved {
+            let other = if other == y { z } else { self.find(other) };
+            if self.g.nodes[other].active {
+                self.add_edge(z, other, r, d);
+            }
+        }
+        let mut ineq = std::mem::take(&mut self.g.ineq);
+        for (a, b, d) in ineq.iter_mut() {
+            if *a == y {
+                *a = z;
+            }
+            if *b == y {
+                *b = z;
+            }
+            if *a == *b {
+                let dd = self.deps.union(*d, dep);
+                self.set_clash(dd);
+            }
+        }
+        self.g.ineq = ineq;
+        // The survivor's at-most restrictions need another look.
+        if !self.g.nodes[z].in_queue {
+            self.g.nodes[z].in_queue = true;
+            self.g.queue.push_back(z);
+        }
+    }
+
+    fn prune(&mut self, x: NodeId) {
+        let mut stack = vec![x];
+        while let Some(n) = stack.pop() {
+            if !self.g.nodes[n].active {
+                continue;
+            }
+            self.g.nodes[n].active = false;
+            for e in self.g.nodes[n].edges.clone() {
+                if !self.g.edges[e].active {
+                    continue;
+                }
+                let other = if self.g.edges[e].a == n {
+                    self.g.edges[e].b
+                } else {
+                    self.g.edges[e].a
+                };
+                self.g.edges[e].active = false;
+                if self.g.nodes[other].parent == Some(n) && self.g.nodes[other].names.is_empty() {
+                    stack.push(other);
+                }
+            }
+        }
+    }
+
+    /// Applies the generating rules (∃, ≥) to the first node that needs them.
+    #[allow(clippy::needless_range_loop)]
+    fn generate(&mut self, blocked: &[bool]) -> bool {
+        for x in 0..self.g.nodes.len() {
+            if !self.g.nodes[x].active || blocked[x] {
+                continue;
+            }
+            let mut did = false;
+            for c in self.g.nodes[x].gens.clone() {
+                if self.clash.is_some() || !self.g.nodes[x].active {
+                    return true;
+                }
+                let dc = self.g.nodes[x].deps[&c];
+                match *self.concepts.get(c) {
+                    Concept::Some(r, f) => {
+                        let ok = self
+                            .r_neighbours(x, r)
+                            .iter()
+                            .any(|&(y, _)| self.has(y, f).is_some());
+                        if ok {
+                            continue;
+                        }
+                        did = true;
+                        if let Concept::Nominal(a) = *self.concepts.get(f) {
+                            let t = self.ind(a);
+                            self.add_edge(x, t, r, dc);
+                        } else {
+                            self.successor(x, r, f, dc);
+                        }
+                    }
+                    Concept::AtLeast(n, r, f) => {
+                        let cands: Vec<NodeId> = self
+                            .r_neighbours(x, r)
+                            .into_iter()
+                            .filter(|&(y, _)| self.has(y, f).is_some())
+                            .map(|(y, _)| y)
+                            .collect();
+                        let mut clique: Vec<NodeId> = Vec::new();
+                        for y in cands {
+                            if clique.iter().all(|&z| self.distinct(y, z).is_some()) {
+                                clique.push(y);
+                            }
+                        }
+                        if clique.len() as u64 >= n as u64 {
+                            continue;
+                        }
+                        did = true;
+                        let news: Vec<NodeId> =
+                            (0..n).map(|_| self.successor(x, r, f, dc)).collect();
+                        for i in 0..news.len() {
+                            for j in i + 1..news.len() {
+                                self.g.ineq.push((news[i], news[j], dc));
+                            }
+                        }
+                    }
+                    _ => {}
+                }
+            }
+            if did {
+                return true;
+            }
+        }
+        false
+    }
+
+    fn successor(&mut self, x: NodeId, r: RoleId, f: ConceptId, dep: Dep) -> NodeId {
+        let y = self.new_node(Some(x));
+        self.add_edge(x, y, r, dep);
+        self.add(y, f, dep);
+        let u = self.prep.universal;
+        self.add(y, u, Dep::EMPTY);
+        y
+    }
+
+    fn search(&mut self) -> Outcome {
+        let mut iter: u64 = 0;
+        loop {
+            iter += 1;
+            if iter.is_multiple_of(64) {
+                if let Some(dl) = self.limits.deadline
+                    && std::time::Instant::now() >= dl {
+                        return Outcome::Unknown(Limit::Time);
+                    }
+                if let Some(flag) = &self.limits.cancel
+                    && flag.load(std::sync::atomic::Ordering::Relaxed) {
+                        return Outcome::Unknown(Limit::Cancelled);
+                    }
+            }
+            if self.stats.nodes > self.limits.max_nodes {
+                return Outcome::Unknown(Limit::Nodes);
+            }
+            if let Some(d) = self.clash.take() {
+                self.stats.clashes += 1;
+                if !self.backtrack(d) {
+                    return Outcome::Unsat;
+                }
+                continue;
+            }
+            self.expand_deterministic();
+            if self.clash.is_some() {
+                continue;
+            }
+            self.check_data();
+            if self.clash.is_some() {
+                continue;
+            }
+            let blocked = self.blocked_all();
+            if self.nondeterministic(&blocked) {
+                continue;
+            }
+            if self.generate(&blocked) {
+                continue;
+            }
+            return Outcome::Sat(self.model());
+        }
+    }
+
+    fn model(&self) -> Model {
+        let mut m = Model::default();
+        for i in 0..self.g.ind_node.len() {
+            let n = self.ind(IndividualId(i as u32));
+            m.labels.push(self.g.nodes[n].label.clone());
+        }
+        let mut owner: HashMap<NodeId, IndividualId> = HashMap::new();
+        for i in 0..self.g.ind_node.len() {
+            owner
+                .entry(self.ind(IndividualId(i as u32)))
+                .or_insert(IndividualId(i as u32));
+        }
+        for e in &self.g.edges {
+            if !e.active {
+                continue;
+            }
+            if let (Some(&a), Some(&b)) = (owner.get(&e.a), owner.get(&e.b)) {
+                for &(r, _) in &e.roles {
+                    m.edges.push((r, a, b));
+                }
+            }
+        }
+        if let Some(q) = self.query_root {
+            let q = self.find(q);
+            m.root_label = self.g.nodes[q].label.clone();
+        }
+        m
+    }
+}
+
+fn mix(x: u64) -> u64 {
+    // splitmix64 finaliser: an order-independent label hash is the sum of mixed ids.
+    let mut z = x.wrapping_add(0x9E37_79B9_7F4A_7C15);
+    z = (z ^ (z >> 30)).wrapping_mul(0xBF58_476D_1CE4_E5B9);
+    z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
+    z ^ (z >> 31)
+}

@@ -1,6 +1,14 @@
 //! The `wherefore` binary: parses arguments and hands over to the library.
 
 fn main() {
+    let default_hook = std::panic::take_hook();
+    std::panic::set_hook(Box::new(move |info| {
+        // A parser panic is turned into an error message by the loader; stay quiet for it.
+        if std::thread::current().name() == Some(wherefore::kb::owl::PARSER_THREAD) {
+            return;
+        }
+        default_hook(info);
+    }));
     let code = wherefore::cli::main_with_args(std::env::args_os());
     std::process::exit(code);
 }

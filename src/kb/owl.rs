@@ -235,9 +235,12 @@ fn parse_file(path: &Path) -> Result<Parsed, KbError> {
         });
     };
     let file2 = file.clone();
+    let (text, shift) = if matches!(kind, ResourceType::OFN) { with_standard_prefixes(&text) } else { (text, 0) };
+    let original = text[shift..].to_string();
     // horned-owl's parsers recurse; parse on a thread with a large stack and turn any panic
     // into an error value rather than a crash.
     let handle = std::thread::Builder::new()
+        .name(PARSER_THREAD.into())
         .stack_size(256 << 20)
         .spawn(
             move || -> Result<(SetOntology<ArcStr>, Vec<String>), String> {
@@ -250,7 +253,9 @@ fn parse_file(path: &Path) -> Result<Parsed, KbError> {
         })?;
     let (ont, incomplete) = match handle.join() {
         Ok(Ok(x)) => x,
-        Ok(Err(reason)) => return Err(KbError::Syntax { file, reason }),
+        Ok(Err(reason)) => {
+            return Err(KbError::Syntax { file, reason: locate(&reason, &original, shift) });
+        }
         Err(_) => {
             return Err(KbError::Syntax {
                 file,
@@ -291,6 +296,42 @@ fn parse_file(path: &Path) -> Result<Parsed, KbError> {
         iri,
         imports,
     })
+}
+
+/// The name of the thread that parses; the binary's panic hook keeps quiet for it.
+pub const PARSER_THREAD: &str = "wherefore-owl-parser";
+
+/// OWL 2 functional syntax predeclares the owl:, rdf:, rdfs: and xsd: prefixes (Structural
+/// Specification §3.7); horned-owl does not, so the missing ones are put in front.
+fn with_standard_prefixes(text: &str) -> (String, usize) {
+    let standard = [
+        ("owl", "http://www.w3.org/2002/07/owl#"),
+        ("rdf", "http://www.w3.org/1999/02/22-rdf-syntax-ns#"),
+        ("rdfs", "http://www.w3.org/2000/01/rdf-schema#"),
+        ("xsd", "http://www.w3.org/2001/XMLSchema#"),
+    ];
+    let compact: String = text.chars().filter(|c| !c.is_whitespace()).collect();
+    let mut head = String::new();
+    for (p, iri) in standard {
+        if !compact.contains(&format!("Prefix({p}:=")) {
+            head.push_str(&format!("Prefix({p}:=<{iri}>)\n"));
+        }
+    }
+    let n = head.len();
+    (head + text, n)
+}
+
+/// Turns a parser's "Byte Span: a to b" into a line and column of the original text.
+fn locate(reason: &str, original: &str, shift: usize) -> String {
+    let Some(i) = reason.find("Byte Span: ") else { return reason.to_string() };
+    let rest = &reason[i + 11..];
+    let num: String = rest.chars().take_while(|c| c.is_ascii_digit()).collect();
+    let Ok(pos) = num.parse::<usize>() else { return reason.to_string() };
+    let pos = pos.saturating_sub(shift).min(original.len());
+    let before = &original.as_bytes()[..pos];
+    let line = before.iter().filter(|&&b| b == b'\n').count() + 1;
+    let col = pos - before.iter().rposition(|&b| b == b'\n').map(|p| p + 1).unwrap_or(0) + 1;
+    format!("line {line}, column {col}: {reason}")
 }
 
 fn parse_text(

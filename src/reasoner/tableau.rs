@@ -225,6 +225,9 @@ impl<'a> Tableau<'a> {
     }
 
     fn has(&self, x: NodeId, c: ConceptId) -> Option<Dep> {
+        if c == ConceptId::TOP {
+            return Some(Dep::EMPTY);
+        }
         self.g.nodes[x].deps.get(&c).copied()
     }
 

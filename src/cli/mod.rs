@@ -2,6 +2,7 @@
 
 pub mod classify;
 pub mod common;
+pub mod explain;
 pub mod measure;
 
 use clap::{Parser, Subcommand};
@@ -40,6 +41,8 @@ struct Cli {
 enum Command {
     /// Classify ontologies: consistency, unsatisfiable classes, subsumptions.
     Classify(classify::ClassifyArgs),
+    /// Explain observations by abduction: minimal hypotheses that account for them.
+    Explain(explain::ExplainArgs),
     /// Measure spatial relations between labelled regions of NIfTI label maps.
     Measure(measure::MeasureArgs),
 }
@@ -66,5 +69,6 @@ where
     match cli.command {
         Command::Classify(a) => classify::run(a),
         Command::Measure(a) => measure::run(a),
+        Command::Explain(a) => explain::run(a),
     }
 }

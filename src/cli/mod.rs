@@ -4,6 +4,7 @@ pub mod classify;
 pub mod common;
 pub mod explain;
 pub mod measure;
+pub mod why;
 
 use clap::{Parser, Subcommand};
 use std::ffi::OsString;
@@ -43,6 +44,8 @@ enum Command {
     Classify(classify::ClassifyArgs),
     /// Explain observations by abduction: minimal hypotheses that account for them.
     Explain(explain::ExplainArgs),
+    /// Justify an entailment, an unsatisfiable class or the inconsistency; list repairs.
+    Why(why::WhyArgs),
     /// Measure spatial relations between labelled regions of NIfTI label maps.
     Measure(measure::MeasureArgs),
 }
@@ -70,5 +73,6 @@ where
         Command::Classify(a) => classify::run(a),
         Command::Measure(a) => measure::run(a),
         Command::Explain(a) => explain::run(a),
+        Command::Why(a) => why::run(a),
     }
 }

@@ -238,6 +238,71 @@ def classify(path, timeout=120.0, memory_mb=2000):
     return closure_json(signature, edges, groups), secs
 
 
+def pellet_classify(path, timeout=300.0):
+    """Second opinion: Pellet 2.3.1, also bundled in owlready2, as (contract JSON, seconds).
+
+    Used to cross-check HermiT where the two could differ (e.g. numeric datatypes, see
+    docs/oracle.md); it prints an indented tree with `=` between equivalent classes.
+    """
+    d = os.path.join(os.path.dirname(hermit_dir()), "pellet")
+    with tempfile.TemporaryDirectory(prefix="pellet-") as tmp:
+        src = _strip_comments(path, tmp)
+        cmd = ["java", "-Xmx2000M", "-cp", os.path.join(d, "*"), "pellet.Pellet", "classify",
+               "-l", "OWLAPIv3", os.path.abspath(src)]
+        t0 = time.perf_counter()
+        try:
+            p = subprocess.run(cmd, capture_output=True, text=True, timeout=timeout)
+        except subprocess.TimeoutExpired as e:
+            raise OracleError("Pellet timed out after %.0f s on %s" % (timeout, path)) from e
+        secs = time.perf_counter() - t0
+    text = p.stdout + p.stderr
+    if "Ontology is inconsistent" in text:
+        return {"consistent": False, "unsatisfiable": [], "subsumptions": []}, secs
+    stack, edges, groups, classes = [], [], [], set()
+    seen_root = False
+    for line in p.stdout.splitlines():
+        m = re.match(r"^( +)(\S.*)$", line)
+        if not m or "://" not in line or "complete in" in line:
+            continue
+        names = [x.strip() for x in m.group(2).split(" = ")]
+        level = (len(m.group(1)) - 1) // 3
+        classes.update(names)
+        if len(names) > 1:
+            groups.append(names)
+        if level == 0:
+            stack = [names[0]]
+            seen_root = True
+            continue
+        stack = stack[:level] + [names[0]]
+        edges.append((names[0], stack[level - 1]))
+    if p.returncode != 0 or not seen_root:
+        raise OracleError("Pellet failed on %s (exit %d): %s" % (path, p.returncode, text[-1500:]))
+    signature = (classes | declared_classes(path)) - {THING, NOTHING}
+    return closure_json(signature, edges, groups), secs
+
+
+def dump_json(res):
+    """The classify JSON, one subsumption per line so that diffs stay readable."""
+    subs = ",\n".join("  " + json.dumps(p) for p in res["subsumptions"])
+    return (
+        '{\n "consistent": %s,\n "unsatisfiable": %s,\n "subsumptions": [%s%s%s]\n}\n'
+        % (
+            "true" if res["consistent"] else "false",
+            json.dumps(res["unsatisfiable"]),
+            "\n" if subs else "",
+            subs,
+            "\n " if subs else "",
+        )
+    )
+
+
+def write_atomic(path, text):
+    tmp = path + ".tmp"
+    with open(tmp, "w", encoding="utf-8") as f:
+        f.write(text)
+    os.replace(tmp, path)
+
+
 def main(argv):
     import argparse
 
@@ -245,11 +310,12 @@ def main(argv):
     ap.add_argument("files", nargs="*")
     ap.add_argument("--timeout", type=float, default=120.0)
     ap.add_argument("--versions", action="store_true", help="print the oracle's versions")
+    ap.add_argument("--pellet", action="store_true", help="ask Pellet (second opinion) instead")
     a = ap.parse_args(argv)
     if a.versions:
         print(json.dumps(versions(), indent=1))
     for f in a.files:
-        res, secs = classify(f, a.timeout)
+        res, secs = (pellet_classify if a.pellet else classify)(f, a.timeout)
         print(json.dumps(res, indent=1))
         print("hermit: %.3f s" % secs, file=sys.stderr)
 

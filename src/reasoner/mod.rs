@@ -201,7 +201,9 @@ impl<'kb> Reasoner<'kb> {
         if let Some(a) = self.consistent {
             return a;
         }
-        let a = match self.run(true, None, &Extra::default()) {
+        // The domain is never empty: with no individual, ⊤ itself must be satisfiable.
+        let probe = if self.prep.n_individuals == 0 { Some(ConceptId::TOP) } else { None };
+        let a = match self.run(true, probe, &Extra::default()) {
             Outcome::Sat(_) => Answer::Yes,
             Outcome::Unsat => Answer::No,
             Outcome::Unknown(l) => Answer::Unknown(l),

@@ -949,13 +949,7 @@ impl<'a> Tableau<'a> {
                             .filter(|&(y, _)| self.has(y, f).is_some())
                             .map(|(y, _)| y)
                             .collect();
-                        let mut clique: Vec<NodeId> = Vec::new();
-                        for y in cands {
-                            if clique.iter().all(|&z| self.distinct(y, z).is_some()) {
-                                clique.push(y);
-                            }
-                        }
-                        if clique.len() as u64 >= n as u64 {
+                        if self.has_clique(&cands, n as usize) {
                             continue;
                         }
                         did = true;
@@ -977,6 +971,37 @@ impl<'a> Tableau<'a> {
         false
     }
 
+    /// Whether `n` of the candidates are pairwise distinct (the ≥-rule's condition), by a
+    /// backtracking clique search.
+    fn has_clique(&self, cands: &[NodeId], n: usize) -> bool {
+        if n <= 1 {
+            return cands.len() >= n;
+        }
+        if cands.len() < n {
+            return false;
+        }
+        fn grow(t: &Tableau, cands: &[NodeId], start: usize, chosen: &mut Vec<NodeId>, n: usize) -> bool {
+            if chosen.len() == n {
+                return true;
+            }
+            for i in start..cands.len() {
+                if cands.len() - i < n - chosen.len() {
+                    return false;
+                }
+                let y = cands[i];
+                if chosen.iter().all(|&z| t.distinct(y, z).is_some()) {
+                    chosen.push(y);
+                    if grow(t, cands, i + 1, chosen, n) {
+                        return true;
+                    }
+                    chosen.pop();
+                }
+            }
+            false
+        }
+        grow(self, cands, 0, &mut Vec::new(), n)
+    }
+
     fn successor(&mut self, x: NodeId, r: RoleId, f: ConceptId, dep: Dep) -> NodeId {
         let y = self.new_node(Some(x));
         self.add_edge(x, y, r, dep);
@@ -990,6 +1015,9 @@ impl<'a> Tableau<'a> {
         let mut iter: u64 = 0;
         loop {
             iter += 1;
+            if iter % 100000 == 0 && std::env::var("WF_DEBUG").is_ok() {
+                eprintln!("iter {iter} nodes {} active {} stack {} clashes {} branches {} merges {}", self.g.nodes.len(), self.g.nodes.iter().filter(|n| n.active).count(), self.stack.len(), self.stats.clashes, self.stats.branches, self.stats.merges);
+            }
             if iter.is_multiple_of(64) {
                 if let Some(dl) = self.limits.deadline
                     && std::time::Instant::now() >= dl

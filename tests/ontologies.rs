@@ -10,7 +10,8 @@
 //! abdomen.ofn + spatial.ofn, 132 subsumption pairs between their named classes (the
 //! contract's pair set: distinct, satisfiable sub, neither side owl:Thing or owl:Nothing),
 //! and, with `QUERIES` added, exactly the 15 unsatisfiable query classes listed in
-//! `UNSATISFIABLE_QUERIES` and 229 pairs. The pair-by-pair sets agreed with ours.
+//! `UNSATISFIABLE_QUERIES` and 229 pairs. The pair-by-pair sets agreed with ours. On the
+//! 17 small ABoxes of `ABOX_CASES` it gave the consistency verdicts written there.
 
 use serde_json::Value;
 use std::collections::BTreeSet;
@@ -655,4 +656,208 @@ fn the_vocabulary_is_declared_documented_and_the_caution_stated() {
     assert!(abdomen.starts_with("# wherefore abdomen"));
     assert!(abdomen.contains("# SCOPE AND CAUTION. Illustrative, not clinical guidance."));
     assert!(readme.contains("illustrative, not clinical guidance"));
+}
+
+// ---------------------------------------------------------------------------------------
+// The abduction pattern at the level of assertions. Each case is a small ABox added to
+// abdomen.ofn. "KB ∪ E entails FocalLesion(l)" is checked the usual way, as the
+// inconsistency of KB ∪ E ∪ {¬FocalLesion(l)}; exclusions and defaults show as plain
+// inconsistency. Oracle: HermiT 1.3.8 (owlready2 0.51) agreed on all 17 cases.
+
+const CASE_HEAD: &str = r#"Prefix(c:=<https://wherefore.example.org/ns/case#>)
+Prefix(ab:=<https://wherefore.example.org/ns/abdomen#>)
+Prefix(sp:=<https://wherefore.example.org/ns/spatial#>)
+Prefix(xsd:=<http://www.w3.org/2001/XMLSchema#>)
+Ontology(<https://wherefore.example.org/ontologies/case.ofn>
+"#;
+
+/// (name, consistent with abdomen.ofn, assertions).
+const ABOX_CASES: [(&str, bool, &str); 17] = [
+    // SimpleHepaticCyst ⊓ ∃properPartOf.Liver ⊑ FocalLesion, NTPP ⊑ properPartOf: the cyst hypothesis entails the observation.
+    (
+        "s01_cyst_explains_intrahepatic",
+        false,
+        r#"ClassAssertion(ab:Liver c:liver)
+ObjectPropertyAssertion(sp:nonTangentialProperPartOf c:l1 c:liver)
+DataPropertyAssertion(sp:largestDiameterMm c:l1 "12"^^xsd:decimal)
+ClassAssertion(ab:SimpleHepaticCyst c:l1)
+ClassAssertion(ObjectComplementOf(ab:FocalLesion) c:l1)"#,
+    ),
+    // without a relation to the liver the cyst hypothesis does not entail FocalLesion.
+    (
+        "s02_no_context_no_explanation",
+        true,
+        r#"ClassAssertion(ab:Liver c:liver)
+ObjectPropertyAssertion(sp:disconnectedFrom c:l1 c:liver)
+ClassAssertion(ab:SimpleHepaticCyst c:l1)
+ClassAssertion(ObjectComplementOf(ab:FocalLesion) c:l1)"#,
+    ),
+    // metastasis-like lesions are at least 5 mm.
+    (
+        "s03_metastasis_too_small",
+        false,
+        r#"ClassAssertion(ab:Liver c:liver)
+ObjectPropertyAssertion(sp:nonTangentialProperPartOf c:l1 c:liver)
+DataPropertyAssertion(sp:largestDiameterMm c:l1 "4.0"^^xsd:decimal)
+ClassAssertion(ab:HepaticMetastasisLikeLesion c:l1)"#,
+    ),
+    // simple cysts are at most 40 mm.
+    (
+        "s04_cyst_too_large",
+        false,
+        r#"ClassAssertion(ab:Liver c:liver)
+ObjectPropertyAssertion(sp:tangentialProperPartOf c:l1 c:liver)
+DataPropertyAssertion(sp:largestDiameterMm c:l1 "45"^^xsd:decimal)
+ClassAssertion(ab:SimpleHepaticCyst c:l1)"#,
+    ),
+    // the default RightKidney ⊑ ¬∃far.Liver, with far symmetric.
+    (
+        "s05_kidney_far_from_liver",
+        false,
+        r#"ClassAssertion(ab:Liver c:liver)
+ClassAssertion(ab:RightKidney c:rk)
+ObjectPropertyAssertion(sp:far c:liver c:rk)"#,
+    ),
+    // leftOf(liver, spleen) gives rightOf(spleen, liver), against the default.
+    (
+        "s06_spleen_right_of_liver_by_inverse",
+        false,
+        r#"ClassAssertion(ab:Liver c:liver)
+ClassAssertion(ab:Spleen c:spleen)
+ObjectPropertyAssertion(sp:leftOf c:liver c:spleen)"#,
+    ),
+    // normal relations between the organs contradict no default.
+    (
+        "s07_normal_anatomy",
+        true,
+        r#"ClassAssertion(ab:Liver c:liver)
+ClassAssertion(ab:Spleen c:spleen)
+ClassAssertion(ab:RightKidney c:rk)
+ClassAssertion(ab:LeftKidney c:lk)
+ClassAssertion(ab:Aorta c:aorta)
+ClassAssertion(ab:InferiorVenaCava c:ivc)
+ClassAssertion(ab:Gallbladder c:gb)
+ClassAssertion(ab:Pancreas c:pancreas)
+ObjectPropertyAssertion(sp:leftOf c:spleen c:liver)
+ObjectPropertyAssertion(sp:leftOf c:lk c:rk)
+ObjectPropertyAssertion(sp:rightOf c:ivc c:aorta)
+ObjectPropertyAssertion(sp:rightOf c:gb c:aorta)
+ObjectPropertyAssertion(sp:near c:rk c:liver)
+ObjectPropertyAssertion(sp:externallyConnectedTo c:rk c:liver)
+ObjectPropertyAssertion(sp:anteriorOf c:pancreas c:aorta)
+ObjectPropertyAssertion(sp:far c:spleen c:liver)
+ObjectPropertyAssertion(sp:disconnectedFrom c:spleen c:liver)
+DataPropertyAssertion(sp:volumeMl c:liver "1500"^^xsd:decimal)"#,
+    ),
+    // a perivascular nodal mass lies outside the organs.
+    (
+        "s08_nodal_mass_inside_pancreas",
+        false,
+        r#"ClassAssertion(ab:Pancreas c:pancreas)
+ObjectPropertyAssertion(sp:nonTangentialProperPartOf c:l1 c:pancreas)
+ClassAssertion(ab:PerivascularNodalMass c:l1)"#,
+    ),
+    // near is symmetric, so the nodal-mass context holds and FocalLesion follows.
+    (
+        "s09_nodal_mass_near_aorta_by_symmetry",
+        false,
+        r#"ClassAssertion(ab:Aorta c:aorta)
+ObjectPropertyAssertion(sp:near c:aorta c:l1)
+DataPropertyAssertion(sp:largestDiameterMm c:l1 "15"^^xsd:decimal)
+ClassAssertion(ab:PerivascularNodalMass c:l1)
+ClassAssertion(ObjectComplementOf(ab:FocalLesion) c:l1)"#,
+    ),
+    // NTPPi is the inverse of NTPP ⊑ properPartOf, and RightKidney ⊑ Kidney.
+    (
+        "s10_renal_cyst_by_inverse",
+        false,
+        r#"ClassAssertion(ab:RightKidney c:rk)
+ObjectPropertyAssertion(sp:hasNonTangentialProperPart c:rk c:l1)
+ClassAssertion(ab:RenalCyst c:l1)
+ClassAssertion(ObjectComplementOf(ab:FocalLesion) c:l1)"#,
+    ),
+    // properPartOf is transitive: l2 lies within the liver.
+    (
+        "s11_nested_by_transitivity",
+        false,
+        r#"ClassAssertion(ab:Liver c:liver)
+ObjectPropertyAssertion(sp:nonTangentialProperPartOf c:l1 c:liver)
+ObjectPropertyAssertion(sp:tangentialProperPartOf c:l2 c:l1)
+ClassAssertion(ab:SimpleHepaticCyst c:l2)
+ClassAssertion(ObjectComplementOf(ab:FocalLesion) c:l2)"#,
+    ),
+    // near the right kidney and, by the inverse of inferiorOf, above it.
+    (
+        "s12_adrenal_region",
+        false,
+        r#"ClassAssertion(ab:RightKidney c:rk)
+ObjectPropertyAssertion(sp:near c:l1 c:rk)
+ObjectPropertyAssertion(sp:inferiorOf c:rk c:l1)
+DataPropertyAssertion(sp:largestDiameterMm c:l1 "30"^^xsd:decimal)
+ClassAssertion(ab:AdrenalRegionMass c:l1)
+ClassAssertion(ObjectComplementOf(ab:FocalLesion) c:l1)"#,
+    ),
+    // the range of largestDiameterMm is xsd:decimal, whose values are not xsd:double values.
+    (
+        "s13_double_literal_refused_by_range",
+        false,
+        r#"DataPropertyAssertion(sp:largestDiameterMm c:l1 "12.0"^^xsd:double)"#,
+    ),
+    // below the kidney, not above it: the adrenal context does not hold.
+    (
+        "s14_adrenal_needs_both_relations",
+        true,
+        r#"ClassAssertion(ab:RightKidney c:rk)
+ObjectPropertyAssertion(sp:near c:l1 c:rk)
+ObjectPropertyAssertion(sp:inferiorOf c:l1 c:rk)
+DataPropertyAssertion(sp:largestDiameterMm c:l1 "30"^^xsd:decimal)
+ClassAssertion(ab:AdrenalRegionMass c:l1)
+ClassAssertion(ObjectComplementOf(ab:FocalLesion) c:l1)"#,
+    ),
+    // peripheralIn ⊑ properPartOf, which excludes an exophytic hepatic mass.
+    (
+        "s15_exophytic_vs_inside",
+        false,
+        r#"ClassAssertion(ab:Liver c:liver)
+ObjectPropertyAssertion(sp:peripheralIn c:l1 c:liver)
+ClassAssertion(ab:ExophyticHepaticMass c:l1)"#,
+    ),
+    // peripheral in the liver at 3 mm depth: the subcapsular context holds.
+    (
+        "s16_subcapsular_peripheral",
+        false,
+        r#"ClassAssertion(ab:Liver c:liver)
+ObjectPropertyAssertion(sp:peripheralIn c:l1 c:liver)
+DataPropertyAssertion(sp:depthMm c:l1 "3"^^xsd:decimal)
+ClassAssertion(ab:SubcapsularHepaticCollection c:l1)
+ClassAssertion(ObjectComplementOf(ab:FocalLesion) c:l1)"#,
+    ),
+    // one hypothesis per lesion, each consistent with its facts.
+    (
+        "s17_two_organs_one_lesion_kind_each",
+        true,
+        r#"ClassAssertion(ab:Liver c:liver)
+ClassAssertion(ab:LeftKidney c:lk)
+ObjectPropertyAssertion(sp:nonTangentialProperPartOf c:l1 c:liver)
+ObjectPropertyAssertion(sp:tangentialProperPartOf c:l2 c:lk)
+ClassAssertion(ab:SimpleHepaticCyst c:l1)
+ClassAssertion(ab:RenalCyst c:l2)
+DataPropertyAssertion(sp:largestDiameterMm c:l1 "20"^^xsd:decimal)"#,
+    ),
+];
+
+#[test]
+fn hypotheses_defaults_and_exclusions_act_on_assertions() {
+    let dir = Path::new(env!("CARGO_TARGET_TMPDIR"));
+    let mut wrong = Vec::new();
+    for (name, consistent, body) in ABOX_CASES {
+        let path = dir.join(format!("ontology-case-{}-{name}.ofn", std::process::id()));
+        std::fs::write(&path, format!("{CASE_HEAD}{body}\n)\n")).expect("writing a case");
+        let c = classify(&[ontology_dir().join("abdomen.ofn"), path.clone()]);
+        let _ = std::fs::remove_file(&path);
+        if c.consistent != consistent {
+            wrong.push(format!("{name}: consistent = {}", c.consistent));
+        }
+    }
+    assert!(wrong.is_empty(), "{wrong:#?}");
 }

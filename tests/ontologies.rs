@@ -11,7 +11,7 @@
 //! contract's pair set: distinct, satisfiable sub, neither side owl:Thing or owl:Nothing),
 //! and, with `QUERIES` added, exactly the 15 unsatisfiable query classes listed in
 //! `UNSATISFIABLE_QUERIES` and 229 pairs. The pair-by-pair sets agreed with ours. On the
-//! 17 small ABoxes of `ABOX_CASES` it gave the consistency verdicts written there.
+//! 19 small ABoxes of `ABOX_CASES` it gave the consistency verdicts written there.
 
 use serde_json::Value;
 use std::collections::BTreeSet;
@@ -662,7 +662,7 @@ fn the_vocabulary_is_declared_documented_and_the_caution_stated() {
 // The abduction pattern at the level of assertions. Each case is a small ABox added to
 // abdomen.ofn. "KB ∪ E entails FocalLesion(l)" is checked the usual way, as the
 // inconsistency of KB ∪ E ∪ {¬FocalLesion(l)}; exclusions and defaults show as plain
-// inconsistency. Oracle: HermiT 1.3.8 (owlready2 0.51) agreed on all 17 cases.
+// inconsistency. Oracle: HermiT 1.3.8 (owlready2 0.51) agreed on all 19 cases.
 
 const CASE_HEAD: &str = r#"Prefix(c:=<https://wherefore.example.org/ns/case#>)
 Prefix(ab:=<https://wherefore.example.org/ns/abdomen#>)
@@ -672,7 +672,7 @@ Ontology(<https://wherefore.example.org/ontologies/case.ofn>
 "#;
 
 /// (name, consistent with abdomen.ofn, assertions).
-const ABOX_CASES: [(&str, bool, &str); 17] = [
+const ABOX_CASES: [(&str, bool, &str); 19] = [
     // SimpleHepaticCyst ⊓ ∃properPartOf.Liver ⊑ FocalLesion, NTPP ⊑ properPartOf: the cyst hypothesis entails the observation.
     (
         "s01_cyst_explains_intrahepatic",
@@ -843,6 +843,27 @@ ObjectPropertyAssertion(sp:tangentialProperPartOf c:l2 c:lk)
 ClassAssertion(ab:SimpleHepaticCyst c:l1)
 ClassAssertion(ab:RenalCyst c:l2)
 DataPropertyAssertion(sp:largestDiameterMm c:l1 "20"^^xsd:decimal)"#,
+    ),
+    // depthMm is not functional: a lesion inside a lesion inside the liver has two depths.
+    (
+        "s18_two_depths",
+        true,
+        r#"ClassAssertion(ab:Liver c:liver)
+ObjectPropertyAssertion(sp:nonTangentialProperPartOf c:l1 c:liver)
+ObjectPropertyAssertion(sp:tangentialProperPartOf c:l2 c:l1)
+DataPropertyAssertion(sp:depthMm c:l2 "0"^^xsd:decimal)
+DataPropertyAssertion(sp:depthMm c:l2 "15"^^xsd:decimal)"#,
+    ),
+    // Every depth must meet a subcapsular collection's "at most 10 mm"; 15 does not.
+    (
+        "s19_two_depths_subcapsular",
+        false,
+        r#"ClassAssertion(ab:Liver c:liver)
+ObjectPropertyAssertion(sp:nonTangentialProperPartOf c:l1 c:liver)
+ObjectPropertyAssertion(sp:tangentialProperPartOf c:l2 c:l1)
+DataPropertyAssertion(sp:depthMm c:l2 "0"^^xsd:decimal)
+DataPropertyAssertion(sp:depthMm c:l2 "15"^^xsd:decimal)
+ClassAssertion(ab:SubcapsularHepaticCollection c:l2)"#,
     ),
 ];
 

@@ -4,6 +4,7 @@
 //! The library is layered as DEVELOPERS.md describes; `main.rs` is a thin shell over it.
 
 pub mod cli;
+pub mod explain;
 pub mod facts;
 pub mod kb;
 pub mod reasoner;

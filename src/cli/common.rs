@@ -110,12 +110,13 @@ pub fn write_atomic(path: &Path, bytes: &[u8], inputs: &[PathBuf]) -> Result<(),
     let target = std::fs::canonicalize(path).ok();
     for i in inputs {
         if let (Some(t), Ok(ic)) = (&target, std::fs::canonicalize(i))
-            && *t == ic {
-                return Err(format!(
-                    "{}: refusing to overwrite an input file; choose another output path",
-                    path.display()
-                ));
-            }
+            && *t == ic
+        {
+            return Err(format!(
+                "{}: refusing to overwrite an input file; choose another output path",
+                path.display()
+            ));
+        }
     }
     let dir = path
         .parent()

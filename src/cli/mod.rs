@@ -2,7 +2,9 @@
 
 pub mod classify;
 pub mod common;
+pub mod explain;
 pub mod measure;
+pub mod why;
 
 use clap::{Parser, Subcommand};
 use std::ffi::OsString;
@@ -40,6 +42,10 @@ struct Cli {
 enum Command {
     /// Classify ontologies: consistency, unsatisfiable classes, subsumptions.
     Classify(classify::ClassifyArgs),
+    /// Explain observations by abduction: minimal hypotheses that account for them.
+    Explain(explain::ExplainArgs),
+    /// Justify an entailment, an unsatisfiable class or the inconsistency; list repairs.
+    Why(why::WhyArgs),
     /// Measure spatial relations between labelled regions of NIfTI label maps.
     Measure(measure::MeasureArgs),
 }
@@ -66,5 +72,7 @@ where
     match cli.command {
         Command::Classify(a) => classify::run(a),
         Command::Measure(a) => measure::run(a),
+        Command::Explain(a) => explain::run(a),
+        Command::Why(a) => why::run(a),
     }
 }

@@ -157,6 +157,63 @@ pub fn load_into(
     Ok(())
 }
 
+/// Parses axioms written in OWL 2 functional syntax (without the `Ontology(...)` wrapper;
+/// `Prefix` declarations may precede them) and adds them to the knowledge base. `name`
+/// stands for the file in messages. Returns the range of new axiom indices.
+pub fn load_axioms_text(
+    kb: &mut KnowledgeBase,
+    name: &str,
+    text: &str,
+) -> Result<std::ops::Range<usize>, KbError> {
+    let mut prefixes = String::new();
+    let mut body = String::new();
+    for line in text.lines() {
+        if line.trim_start().starts_with("Prefix(") {
+            prefixes.push_str(line);
+            prefixes.push('\n');
+        } else {
+            body.push_str(line);
+            body.push('\n');
+        }
+    }
+    let doc = format!("{prefixes}Ontology(<urn:wherefore:query>\n{body})\n");
+    let (doc, shift) = with_standard_prefixes(&doc);
+    let parsed = std::thread::Builder::new()
+        .name(PARSER_THREAD.into())
+        .stack_size(256 << 20)
+        .spawn(move || parse_text(&doc, ResourceType::OFN, None).map(|(o, _)| o))
+        .map_err(|e| KbError::Syntax {
+            file: name.into(),
+            reason: e.to_string(),
+        })?
+        .join();
+    let ont = match parsed {
+        Ok(Ok(o)) => o,
+        Ok(Err(reason)) => {
+            return Err(KbError::Syntax {
+                file: name.into(),
+                reason: locate(&reason, text, shift),
+            });
+        }
+        Err(_) => {
+            return Err(KbError::Syntax {
+                file: name.into(),
+                reason: "malformed functional syntax".into(),
+            });
+        }
+    };
+    let mut comps: Vec<AnnotatedComponent<ArcStr>> = ont.iter().cloned().collect();
+    comps.sort();
+    let start = kb.axioms.len();
+    let mut conv = Converter {
+        kb,
+        file: name.to_string(),
+        lenient: false,
+    };
+    conv.convert_all(&comps)?;
+    Ok(start..kb.axioms.len())
+}
+
 fn canonical(p: &Path) -> PathBuf {
     std::fs::canonicalize(p).unwrap_or_else(|_| p.to_path_buf())
 }
@@ -235,7 +292,11 @@ fn parse_file(path: &Path) -> Result<Parsed, KbError> {
         });
     };
     let file2 = file.clone();
-    let (text, shift) = if matches!(kind, ResourceType::OFN) { with_standard_prefixes(&text) } else { (text, 0) };
+    let (text, shift) = if matches!(kind, ResourceType::OFN) {
+        with_standard_prefixes(&text)
+    } else {
+        (text, 0)
+    };
     let original = text[shift..].to_string();
     // horned-owl's parsers recurse; parse on a thread with a large stack and turn any panic
     // into an error value rather than a crash.
@@ -254,7 +315,10 @@ fn parse_file(path: &Path) -> Result<Parsed, KbError> {
     let (ont, incomplete) = match handle.join() {
         Ok(Ok(x)) => x,
         Ok(Err(reason)) => {
-            return Err(KbError::Syntax { file, reason: locate(&reason, &original, shift) });
+            return Err(KbError::Syntax {
+                file,
+                reason: locate(&reason, &original, shift),
+            });
         }
         Err(_) => {
             return Err(KbError::Syntax {
@@ -323,14 +387,24 @@ fn with_standard_prefixes(text: &str) -> (String, usize) {
 
 /// Turns a parser's "Byte Span: a to b" into a line and column of the original text.
 fn locate(reason: &str, original: &str, shift: usize) -> String {
-    let Some(i) = reason.find("Byte Span: ") else { return reason.to_string() };
+    let Some(i) = reason.find("Byte Span: ") else {
+        return reason.to_string();
+    };
     let rest = &reason[i + 11..];
     let num: String = rest.chars().take_while(|c| c.is_ascii_digit()).collect();
-    let Ok(pos) = num.parse::<usize>() else { return reason.to_string() };
+    let Ok(pos) = num.parse::<usize>() else {
+        return reason.to_string();
+    };
     let pos = pos.saturating_sub(shift).min(original.len());
     let before = &original.as_bytes()[..pos];
     let line = before.iter().filter(|&&b| b == b'\n').count() + 1;
-    let col = pos - before.iter().rposition(|&b| b == b'\n').map(|p| p + 1).unwrap_or(0) + 1;
+    let col = pos
+        - before
+            .iter()
+            .rposition(|&b| b == b'\n')
+            .map(|p| p + 1)
+            .unwrap_or(0)
+        + 1;
     format!("line {line}, column {col}: {reason}")
 }
 
@@ -481,27 +555,18 @@ impl Converter<'_> {
                 Ok(true)
             }
             C::EquivalentClasses(ax) => {
-                let cs =
-                    ax.0.iter()
-                        .map(|e| self.ce(e))
-                        .collect::<Conv<Vec<_>>>()?;
+                let cs = ax.0.iter().map(|e| self.ce(e)).collect::<Conv<Vec<_>>>()?;
                 self.kb.push(Axiom::Equivalent(cs), src);
                 Ok(true)
             }
             C::DisjointClasses(ax) => {
-                let cs =
-                    ax.0.iter()
-                        .map(|e| self.ce(e))
-                        .collect::<Conv<Vec<_>>>()?;
+                let cs = ax.0.iter().map(|e| self.ce(e)).collect::<Conv<Vec<_>>>()?;
                 self.kb.push(Axiom::Disjoint(cs), src);
                 Ok(true)
             }
             C::DisjointUnion(ax) => {
                 let a = self.class_concept(&ax.0.0);
-                let cs =
-                    ax.1.iter()
-                        .map(|e| self.ce(e))
-                        .collect::<Conv<Vec<_>>>()?;
+                let cs = ax.1.iter().map(|e| self.ce(e)).collect::<Conv<Vec<_>>>()?;
                 self.kb.push(Axiom::DisjointUnion(a, cs), src);
                 Ok(true)
             }
@@ -755,17 +820,11 @@ impl Converter<'_> {
         Ok(match e {
             CE::Class(c) => self.class_concept(&c.0),
             CE::ObjectIntersectionOf(xs) => {
-                let v = xs
-                    .iter()
-                    .map(|x| self.ce(x))
-                    .collect::<Conv<Vec<_>>>()?;
+                let v = xs.iter().map(|x| self.ce(x)).collect::<Conv<Vec<_>>>()?;
                 self.kb.concepts.and(v)
             }
             CE::ObjectUnionOf(xs) => {
-                let v = xs
-                    .iter()
-                    .map(|x| self.ce(x))
-                    .collect::<Conv<Vec<_>>>()?;
+                let v = xs.iter().map(|x| self.ce(x)).collect::<Conv<Vec<_>>>()?;
                 self.kb.concepts.or(v)
             }
             CE::ObjectComplementOf(x) => {

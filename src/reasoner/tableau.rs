@@ -248,10 +248,11 @@ impl<'a> Tableau<'a> {
         }
         let concept = self.concepts.get(c).clone();
         if let Concept::NotNominal(a) = concept
-            && self.g.nodes[x].names.contains(&a) {
-                self.set_clash(dep);
-                return;
-            }
+            && self.g.nodes[x].names.contains(&a)
+        {
+            self.set_clash(dep);
+            return;
+        }
         let node = &mut self.g.nodes[x];
         node.label.push(c);
         node.deps.insert(c, dep);
@@ -355,12 +356,13 @@ impl<'a> Tableau<'a> {
         let alls = self.g.nodes[x].alls.clone();
         for c in alls {
             if let Concept::All(s, f) = *self.concepts.get(c)
-                && p.is_sub(r, s) {
-                    let dc = self.has(x, c).unwrap_or(Dep::EMPTY);
-                    let d = self.deps.union(dep, dc);
-                    self.add(y, f, d);
-                    self.all_plus(y, r, s, f, d);
-                }
+                && p.is_sub(r, s)
+            {
+                let dc = self.has(x, c).unwrap_or(Dep::EMPTY);
+                let d = self.deps.union(dep, dc);
+                self.add(y, f, d);
+                self.all_plus(y, r, s, f, d);
+            }
         }
     }
 
@@ -518,10 +520,11 @@ impl<'a> Tableau<'a> {
                 }
             }
             if let Some(a) = acc
-                && a.is_empty() {
-                    self.set_clash(d);
-                    return;
-                }
+                && a.is_empty()
+            {
+                self.set_clash(d);
+                return;
+            }
         }
     }
 
@@ -989,13 +992,15 @@ impl<'a> Tableau<'a> {
             iter += 1;
             if iter.is_multiple_of(64) {
                 if let Some(dl) = self.limits.deadline
-                    && std::time::Instant::now() >= dl {
-                        return Outcome::Unknown(Limit::Time);
-                    }
+                    && std::time::Instant::now() >= dl
+                {
+                    return Outcome::Unknown(Limit::Time);
+                }
                 if let Some(flag) = &self.limits.cancel
-                    && flag.load(std::sync::atomic::Ordering::Relaxed) {
-                        return Outcome::Unknown(Limit::Cancelled);
-                    }
+                    && flag.load(std::sync::atomic::Ordering::Relaxed)
+                {
+                    return Outcome::Unknown(Limit::Cancelled);
+                }
             }
             if self.stats.nodes > self.limits.max_nodes {
                 return Outcome::Unknown(Limit::Nodes);

@@ -202,7 +202,11 @@ impl<'kb> Reasoner<'kb> {
             return a;
         }
         // The domain is never empty: with no individual, ⊤ itself must be satisfiable.
-        let probe = if self.prep.n_individuals == 0 { Some(ConceptId::TOP) } else { None };
+        let probe = if self.prep.n_individuals == 0 {
+            Some(ConceptId::TOP)
+        } else {
+            None
+        };
         let a = match self.run(true, probe, &Extra::default()) {
             Outcome::Sat(_) => Answer::Yes,
             Outcome::Unsat => Answer::No,

@@ -12,14 +12,45 @@ use super::{Extra, Limit, Limits, Stats};
 use crate::kb::datarange::DataRange;
 use crate::kb::{Concept, ConceptId, ConceptStore, DataRangeStore, IndividualId, RoleId};
 use std::collections::{HashMap, VecDeque};
+use std::rc::Rc;
 
 type NodeId = usize;
 type EdgeId = usize;
 
+/// A node label's membership and dependencies: a vector sorted by concept id, cheap to copy
+/// at branching points and quick to search for the small labels a tableau builds.
+#[derive(Clone, Debug, Default)]
+struct LabelSet(Vec<(ConceptId, Dep)>);
+
+impl LabelSet {
+    fn get(&self, c: &ConceptId) -> Option<&Dep> {
+        self.0
+            .binary_search_by_key(c, |e| e.0)
+            .ok()
+            .map(|i| &self.0[i].1)
+    }
+    fn contains_key(&self, c: &ConceptId) -> bool {
+        self.0.binary_search_by_key(c, |e| e.0).is_ok()
+    }
+    fn insert(&mut self, c: ConceptId, d: Dep) {
+        match self.0.binary_search_by_key(&c, |e| e.0) {
+            Ok(i) => self.0[i].1 = d,
+            Err(i) => self.0.insert(i, (c, d)),
+        }
+    }
+}
+
+impl std::ops::Index<&ConceptId> for LabelSet {
+    type Output = Dep;
+    fn index(&self, c: &ConceptId) -> &Dep {
+        self.get(c).expect("concept in label")
+    }
+}
+
 #[derive(Clone, Debug, Default)]
 struct Node {
     label: Vec<ConceptId>,
-    deps: HashMap<ConceptId, Dep>,
+    deps: LabelSet,
     hash: u64,
     parent: Option<NodeId>,
     names: Vec<IndividualId>,
@@ -52,8 +83,8 @@ struct Edge {
 /// The completion graph.
 #[derive(Clone, Debug, Default)]
 struct Graph {
-    nodes: Vec<Node>,
-    edges: Vec<Edge>,
+    nodes: Vec<Rc<Node>>,
+    edges: Vec<Rc<Edge>>,
     ineq: Vec<(NodeId, NodeId, Dep)>,
     queue: VecDeque<NodeId>,
     ind_node: Vec<NodeId>,
@@ -159,11 +190,11 @@ impl<'a> Tableau<'a> {
 
     fn new_node(&mut self, parent: Option<NodeId>) -> NodeId {
         let id = self.g.nodes.len();
-        self.g.nodes.push(Node {
+        self.g.nodes.push(Rc::new(Node {
             parent,
             active: true,
             ..Default::default()
-        });
+        }));
         self.stats.nodes += 1;
         id
     }
@@ -174,7 +205,9 @@ impl<'a> Tableau<'a> {
         if with_abox {
             for i in 0..p.n_individuals {
                 let n = self.new_node(None);
-                self.g.nodes[n].names.push(IndividualId(i as u32));
+                Rc::make_mut(&mut self.g.nodes[n])
+                    .names
+                    .push(IndividualId(i as u32));
                 self.g.ind_node.push(n);
             }
             for i in 0..p.n_individuals {
@@ -253,7 +286,7 @@ impl<'a> Tableau<'a> {
             self.set_clash(dep);
             return;
         }
-        let node = &mut self.g.nodes[x];
+        let node = Rc::make_mut(&mut self.g.nodes[x]);
         node.label.push(c);
         node.deps.insert(c, dep);
         node.hash = node.hash.wrapping_add(mix(c.0 as u64));
@@ -317,20 +350,22 @@ impl<'a> Tableau<'a> {
             }
             None => {
                 let e = self.g.edges.len();
-                self.g.edges.push(Edge {
+                self.g.edges.push(Rc::new(Edge {
                     a: x,
                     b: y,
                     roles: Vec::new(),
                     active: true,
-                });
-                self.g.nodes[x].edges.push(e);
+                }));
+                Rc::make_mut(&mut self.g.nodes[x]).edges.push(e);
                 if x != y {
-                    self.g.nodes[y].edges.push(e);
+                    Rc::make_mut(&mut self.g.nodes[y]).edges.push(e);
                 }
                 (e, r)
             }
         };
-        self.g.edges[e].roles.push((oriented, dep));
+        Rc::make_mut(&mut self.g.edges[e])
+            .roles
+            .push((oriented, dep));
         self.fire_edge(x, y, r, dep);
         if x == y {
             self.fire_edge(x, x, r.inverse(), dep);
@@ -339,7 +374,7 @@ impl<'a> Tableau<'a> {
         }
         for n in [x, y] {
             if !self.g.nodes[n].in_queue {
-                self.g.nodes[n].in_queue = true;
+                Rc::make_mut(&mut self.g.nodes[n]).in_queue = true;
                 self.g.queue.push_back(n);
             }
         }
@@ -383,13 +418,13 @@ impl<'a> Tableau<'a> {
             let Some(x) = self.g.queue.pop_front() else {
                 return;
             };
-            self.g.nodes[x].in_queue = false;
+            Rc::make_mut(&mut self.g.nodes[x]).in_queue = false;
             if !self.g.nodes[x].active {
                 continue;
             }
             while self.clash.is_none() && self.g.nodes[x].cursor < self.g.nodes[x].label.len() {
                 let i = self.g.nodes[x].cursor;
-                self.g.nodes[x].cursor += 1;
+                Rc::make_mut(&mut self.g.nodes[x]).cursor += 1;
                 let c = self.g.nodes[x].label[i];
                 let dep = self.g.nodes[x].deps[&c];
                 self.stats.expansions += 1;
@@ -445,7 +480,7 @@ impl<'a> Tableau<'a> {
             if !self.g.nodes[x].active || !self.g.nodes[x].data_dirty {
                 continue;
             }
-            self.g.nodes[x].data_dirty = false;
+            Rc::make_mut(&mut self.g.nodes[x]).data_dirty = false;
             self.check_data_node(x);
         }
     }
@@ -528,12 +563,15 @@ impl<'a> Tableau<'a> {
         }
     }
 
-    /// Whether x or one of its ancestors is blocked (pairwise blocking, Horrocks, Sattler &
-    /// Tobies 1999): a tree node x with parent x' is blocked by an ancestor y with parent y'
-    /// when L(x)=L(y), L(x')=L(y') and the edges x'→x and y'→y carry the same roles.
+    /// Which nodes are blocked, directly or through a blocked ancestor. Pairwise anywhere
+    /// blocking (Horrocks, Sattler & Tobies 1999 for the pairwise condition; Motik, Shearer &
+    /// Horrocks 2009, §5, for taking the blocker anywhere earlier in the graph): a tree node x
+    /// with parent x' is blocked by an earlier unblocked tree node y with parent y' when
+    /// L(x)=L(y), L(x')=L(y') and the edges x'→x and y'→y carry the same roles.
     fn blocked_all(&self) -> Vec<bool> {
         let n = self.g.nodes.len();
         let mut blocked = vec![false; n];
+        let mut seen: HashMap<(u64, u64, Vec<RoleId>), Vec<NodeId>> = HashMap::new();
         for x in 0..n {
             let node = &self.g.nodes[x];
             if !node.active || node.is_root() {
@@ -544,15 +582,17 @@ impl<'a> Tableau<'a> {
                 blocked[x] = true;
                 continue;
             }
-            let ex = self.edge_roles(xp, x);
-            let mut y = xp;
-            while let Some(yp) = self.g.nodes[y].parent {
-                if self.same_label(x, y) && self.same_label(xp, yp) && self.edge_roles(yp, y) == ex
-                {
-                    blocked[x] = true;
-                    break;
-                }
-                y = yp;
+            let key = (node.hash, self.g.nodes[xp].hash, self.edge_roles(xp, x));
+            let blocker = seen.get(&key).and_then(|cands| {
+                cands.iter().copied().find(|&y| {
+                    let yp = self.g.nodes[y].parent.expect("tree node");
+                    self.same_label(x, y) && self.same_label(xp, yp)
+                })
+            });
+            if blocker.is_some() {
+                blocked[x] = true;
+            } else {
+                seen.entry(key).or_default().push(x);
             }
         }
         blocked
@@ -825,8 +865,8 @@ impl<'a> Tableau<'a> {
             .iter()
             .map(|c| (*c, self.g.nodes[y].deps[c]))
             .collect();
-        let names = std::mem::take(&mut self.g.nodes[y].names);
-        self.g.nodes[z].names.extend(names);
+        let names = std::mem::take(&mut Rc::make_mut(&mut self.g.nodes[y]).names);
+        Rc::make_mut(&mut self.g.nodes[z]).names.extend(names);
         let edges = self.g.nodes[y].edges.clone();
         let mut moved: Vec<(NodeId, RoleId, Dep)> = Vec::new();
         for e in edges {
@@ -835,7 +875,7 @@ impl<'a> Tableau<'a> {
             }
             let (a, b) = (self.g.edges[e].a, self.g.edges[e].b);
             let roles = self.g.edges[e].roles.clone();
-            self.g.edges[e].active = false;
+            Rc::make_mut(&mut self.g.edges[e]).active = false;
             let other = if a == y { b } else { a };
             if other != y
                 && self.g.nodes[other].parent == Some(y)
@@ -855,8 +895,8 @@ impl<'a> Tableau<'a> {
                 }
             }
         }
-        self.g.nodes[y].active = false;
-        self.g.nodes[y].merged_into = Some(z);
+        Rc::make_mut(&mut self.g.nodes[y]).active = false;
+        Rc::make_mut(&mut self.g.nodes[y]).merged_into = Some(z);
         for (c, d) in label {
             let d = self.deps.union(d, dep);
             self.add(z, c, d);
@@ -883,7 +923,7 @@ impl<'a> Tableau<'a> {
         self.g.ineq = ineq;
         // The survivor's at-most restrictions need another look.
         if !self.g.nodes[z].in_queue {
-            self.g.nodes[z].in_queue = true;
+            Rc::make_mut(&mut self.g.nodes[z]).in_queue = true;
             self.g.queue.push_back(z);
         }
     }
@@ -894,7 +934,7 @@ impl<'a> Tableau<'a> {
             if !self.g.nodes[n].active {
                 continue;
             }
-            self.g.nodes[n].active = false;
+            Rc::make_mut(&mut self.g.nodes[n]).active = false;
             for e in self.g.nodes[n].edges.clone() {
                 if !self.g.edges[e].active {
                     continue;
@@ -904,7 +944,7 @@ impl<'a> Tableau<'a> {
                 } else {
                     self.g.edges[e].a
                 };
-                self.g.edges[e].active = false;
+                Rc::make_mut(&mut self.g.edges[e]).active = false;
                 if self.g.nodes[other].parent == Some(n) && self.g.nodes[other].names.is_empty() {
                     stack.push(other);
                 }
@@ -980,7 +1020,13 @@ impl<'a> Tableau<'a> {
         if cands.len() < n {
             return false;
         }
-        fn grow(t: &Tableau, cands: &[NodeId], start: usize, chosen: &mut Vec<NodeId>, n: usize) -> bool {
+        fn grow(
+            t: &Tableau,
+            cands: &[NodeId],
+            start: usize,
+            chosen: &mut Vec<NodeId>,
+            n: usize,
+        ) -> bool {
             if chosen.len() == n {
                 return true;
             }
@@ -1015,8 +1061,16 @@ impl<'a> Tableau<'a> {
         let mut iter: u64 = 0;
         loop {
             iter += 1;
-            if iter % 100000 == 0 && std::env::var("WF_DEBUG").is_ok() {
-                eprintln!("iter {iter} nodes {} active {} stack {} clashes {} branches {} merges {}", self.g.nodes.len(), self.g.nodes.iter().filter(|n| n.active).count(), self.stack.len(), self.stats.clashes, self.stats.branches, self.stats.merges);
+            if iter.is_multiple_of(2000) && std::env::var("WF_DEBUG").is_ok() {
+                eprintln!(
+                    "iter {iter} nodes {} active {} stack {} clashes {} branches {} merges {}",
+                    self.g.nodes.len(),
+                    self.g.nodes.iter().filter(|n| n.active).count(),
+                    self.stack.len(),
+                    self.stats.clashes,
+                    self.stats.branches,
+                    self.stats.merges
+                );
             }
             if iter.is_multiple_of(64) {
                 if let Some(dl) = self.limits.deadline
@@ -1048,10 +1102,10 @@ impl<'a> Tableau<'a> {
             if self.clash.is_some() {
                 continue;
             }
-            let blocked = self.blocked_all();
-            if self.nondeterministic(&blocked) {
+            if self.nondeterministic(&[]) {
                 continue;
             }
+            let blocked = self.blocked_all();
             if self.generate(&blocked) {
                 continue;
             }

@@ -83,8 +83,8 @@ fn fast_error(reference: &Mask, dims: [usize; 3], aff: &Affine, d: [f64; 3]) -> 
 
 #[test]
 fn fast_landscape_stays_within_its_measured_error() {
-    // The bound stated in docs/spatial.md (measured by this test's configurations and by
-    // scripts/spatial-landscape-error): |fast − exact| ≤ 0.12 on these shapes, anisotropic
+    // The bound stated in docs/spatial.md, measured by this test's configurations (worst
+    // 0.0855, printed): |fast − exact| ≤ 0.12 on these shapes, anisotropic
     // and oblique grids included; the fast value never exceeds the exact one by more than
     // rounding, since every origin it keeps is a real reference voxel.
     let shapes: Vec<Vec<[i64; 3]>> = vec![
@@ -106,6 +106,7 @@ fn fast_landscape_stays_within_its_measured_error() {
             }
         }
     }
+    eprintln!("worst voxelwise |fast - exact| = {worst}");
     assert!(worst <= 0.12, "worst fast-landscape error {worst}");
 }
 
@@ -509,4 +510,74 @@ fn shipped_config_equals_the_defaults() {
     )
     .unwrap();
     assert_eq!(c, MeasureConfig::default());
+}
+
+/// Aggregated directional degrees of every ordered pair of a small abdomen phantom.
+fn pair_degrees(opts: &MeasureOptions) -> Vec<(String, String, String, f64)> {
+    let aff = Affine::diagonal([1.5, 1.5, 2.0], [-48.0, -48.0, -64.0]);
+    let mut p = Phantom::new([64, 64, 64], aff);
+    p.ellipsoid(1, [-15.0, 5.0, 10.0], [20.0, 16.0, 18.0])
+        .ellipsoid(2, [25.0, -5.0, 15.0], [8.0, 10.0, 12.0])
+        .tube(3, [0.0, -20.0, -50.0], [0.0, -20.0, 50.0], 5.0)
+        .cuboid(4, [-10.0, 10.0, -40.0], [12.0, 30.0, -20.0])
+        .lesion(5, 1, [-20.0, 5.0, 10.0], [5.0, 5.0, 5.0]);
+    let rows = parse_table(
+        "value\tindividual\tclass\n1\tliver\thttp://x#Liver\n2\tspleen\thttp://x#Spleen\n3\taorta\thttp://x#Aorta\n4\tbowel\thttp://x#Bowel\n5\tl1\thttp://x#Lesion\n",
+        "t",
+    )
+    .unwrap();
+    let f = measure(&[p.to_label_map("m.nii")], &rows, "t", opts)
+        .unwrap()
+        .facts;
+    let dirs = [
+        "left_of",
+        "right_of",
+        "anterior_of",
+        "posterior_of",
+        "superior_of",
+        "inferior_of",
+    ];
+    let mut out = Vec::new();
+    for a in ["liver", "spleen", "aorta", "bowel", "l1"] {
+        for b in ["liver", "spleen", "aorta", "bowel", "l1"] {
+            for d in dirs {
+                if a != b {
+                    let g = f
+                        .relations
+                        .iter()
+                        .find(|r| r.subject == a && r.object == b && r.relation == d)
+                        .map_or(0.0, |r| r.degree);
+                    out.push((a.to_string(), b.to_string(), d.to_string(), g));
+                }
+            }
+        }
+    }
+    out
+}
+
+#[test]
+fn aggregated_degrees_of_fast_and_coarse_landscapes_stay_near_exact() {
+    // Reference: the exact landscape (Bloch 1999 definition, max over every reference voxel).
+    // Bounds stated in docs/spatial.md, measured here: full-resolution propagation and
+    // propagation on 2×2×2 and 4×4×4 cells, all with the mean aggregate.
+    let mut opts = MeasureOptions::default();
+    opts.config.directional.landscape = LandscapeMode::Exact;
+    let exact = pair_degrees(&opts);
+    let mut worst = Vec::new();
+    for cells in [1usize << 20, 40_000, 5_000] {
+        let mut o = MeasureOptions::default();
+        o.config.directional.max_landscape_cells = cells;
+        let got = pair_degrees(&o);
+        let w = exact
+            .iter()
+            .zip(&got)
+            .map(|(e, g)| (e.3 - g.3).abs())
+            .fold(0.0f64, f64::max);
+        worst.push(w);
+    }
+    eprintln!("worst |aggregated degree - exact| at factors 1, 2, 4: {worst:?}");
+    // Measured 0.0227, 0.0302 and 0.0496 (docs/spatial.md).
+    assert!(worst[0] <= 0.03, "{worst:?}");
+    assert!(worst[1] <= 0.04, "{worst:?}");
+    assert!(worst[2] <= 0.06, "{worst:?}");
 }

@@ -102,6 +102,9 @@ pub struct DirectionalParams {
     pub aggregate: Aggregate,
     /// Exact or propagated landscape.
     pub landscape: LandscapeMode,
+    /// Largest number of propagation cells of one fast landscape; a larger box is coarsened
+    /// by the smallest integer factor that fits (docs/spatial.md states the error).
+    pub max_landscape_cells: usize,
 }
 
 /// Topology choices.
@@ -146,6 +149,7 @@ impl Default for MeasureConfig {
             directional: DirectionalParams {
                 aggregate: Aggregate::Mean,
                 landscape: LandscapeMode::Fast,
+                max_landscape_cells: 1 << 21,
             },
             topology: TopologyParams { adjacency: 26 },
         }
@@ -188,6 +192,9 @@ impl MeasureConfig {
             self.depth.peripheral_until_mm,
             self.depth.deep_from_mm,
         )?;
+        if self.directional.max_landscape_cells < 4096 {
+            return Err("[directional] max_landscape_cells must be at least 4096".into());
+        }
         if self.topology.adjacency != 6 && self.topology.adjacency != 26 {
             return Err(format!(
                 "[topology] adjacency = {}; use 6 or 26",

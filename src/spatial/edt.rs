@@ -33,43 +33,61 @@ pub fn edt_squared(dims: [usize; 3], spacing: [f64; 3], feature: &[bool]) -> Vec
                 row.copy_from_slice(&s.out[..nx]);
             },
         );
-    // Axis j: lines inside each k-slab.
+    // Axis j: lines inside each k-slab, gathered row by row into a transposed buffer so
+    // that memory is read and written in order.
     if ny > 1 {
         d.par_chunks_mut(nx * ny).for_each_init(
-            || Scratch::new(ny),
-            |s, slab| {
-                for i in 0..nx {
-                    for j in 0..ny {
-                        s.f[j] = slab[i + nx * j];
+            || (Scratch::new(ny), vec![0.0f64; nx * ny]),
+            |(s, t), slab| {
+                for j in 0..ny {
+                    for i in 0..nx {
+                        t[i * ny + j] = slab[i + nx * j];
                     }
+                }
+                for i in 0..nx {
+                    let line = &mut t[i * ny..(i + 1) * ny];
+                    s.f[..ny].copy_from_slice(line);
                     lower_envelope(&s.f[..ny], spacing[1], &mut s.out[..ny], &mut s.v, &mut s.z);
-                    for j in 0..ny {
-                        slab[i + nx * j] = s.out[j];
+                    line.copy_from_slice(&s.out[..ny]);
+                }
+                for j in 0..ny {
+                    for i in 0..nx {
+                        slab[i + nx * j] = t[i * ny + j];
                     }
                 }
             },
         );
     }
-    // Axis k: lines with stride nx·ny; each (i, j) column belongs to exactly one task.
+    // Axis k: for each j, the (i, k) plane is gathered into a transposed buffer (reading
+    // whole rows of i), transformed line by line, and scattered back. Each j belongs to
+    // exactly one task, so the writes of different tasks never meet.
     if nz > 1 {
         let plane = nx * ny;
         let ptr = SharedSlice(d.as_mut_ptr());
         let len = d.len();
         (0..ny).into_par_iter().for_each_init(
-            || Scratch::new(nz),
-            |s, j| {
+            || (Scratch::new(nz), vec![0.0f64; nx * nz]),
+            |(s, t), j| {
                 let p = &ptr;
-                for i in 0..nx {
-                    let base = i + nx * j;
-                    for k in 0..nz {
-                        debug_assert!(base + plane * k < len);
-                        // SAFETY: index < len, and column (i, j) is touched by this task only.
-                        s.f[k] = unsafe { *p.0.add(base + plane * k) };
+                for k in 0..nz {
+                    let row = nx * j + plane * k;
+                    debug_assert!(row + nx <= len);
+                    for i in 0..nx {
+                        // SAFETY: row + i < len; row j of plane k is touched by this task only.
+                        t[i * nz + k] = unsafe { *p.0.add(row + i) };
                     }
+                }
+                for i in 0..nx {
+                    let line = &mut t[i * nz..(i + 1) * nz];
+                    s.f[..nz].copy_from_slice(line);
                     lower_envelope(&s.f[..nz], spacing[2], &mut s.out[..nz], &mut s.v, &mut s.z);
-                    for k in 0..nz {
+                    line.copy_from_slice(&s.out[..nz]);
+                }
+                for k in 0..nz {
+                    let row = nx * j + plane * k;
+                    for i in 0..nx {
                         // SAFETY: as above.
-                        unsafe { *p.0.add(base + plane * k) = s.out[k] };
+                        unsafe { *p.0.add(row + i) = t[i * nz + k] };
                     }
                 }
             },

@@ -121,16 +121,35 @@ const NONE: i16 = i16::MIN;
 
 /// A landscape computed by two-pass propagation over a box (Bloch 1999, §4: each voxel keeps
 /// the reference point that gives it the best degree, and takes over a neighbour's point
-/// when that gives a better angle). Memory: 6 bytes per voxel (the offset to the origin).
+/// when that gives a better angle). State: the vector from the origin to the voxel, in voxel
+/// units, as three `i16` arrays (6 bytes per voxel).
+///
+/// Each raster pass visits the 13 neighbours that precede a voxel (the forward pass) or
+/// follow it (the backward pass). The 12 neighbours in earlier rows are handled a whole row
+/// at a time in branch-free loops the compiler vectorises; the one in the same row is
+/// handled by a sequential sweep along the row.
 pub struct FastLandscape {
     /// Global index of the box's first voxel.
     pub lo: [i64; 3],
-    /// Box size.
+    /// Box size (fine voxels).
     pub dims: [usize; 3],
-    /// Vector (voxel units) from each voxel's origin in the reference to the voxel; `NONE` if none.
-    offsets: Vec<[i16; 3]>,
-    linear: [[f64; 3]; 3],
-    direction: [f64; 3],
+    /// Coarsening factor: the propagation runs on cells of factor³ voxels (1 = full resolution).
+    pub factor: usize,
+    cdims: [usize; 3],
+    fine_linear: [[f64; 3]; 3],
+    ox: Vec<i16>,
+    oy: Vec<i16>,
+    oz: Vec<i16>,
+    linear: [[f32; 3]; 3],
+    direction: [f32; 3],
+}
+
+/// Per-row scratch of the propagation.
+struct Row {
+    key: Vec<f32>,
+    x: Vec<i16>,
+    y: Vec<i16>,
+    z: Vec<i16>,
 }
 
 impl FastLandscape {
@@ -143,111 +162,168 @@ impl FastLandscape {
         affine: &Affine,
         d: [f64; 3],
     ) -> Self {
-        let [nx, ny, nz] = dims;
-        let mut offsets = vec![[NONE, 0, 0]; nx * ny * nz];
-        for p in reference.voxels() {
-            let (i, j, k) = (
-                (p[0] - lo[0]) as usize,
-                (p[1] - lo[1]) as usize,
-                (p[2] - lo[2]) as usize,
-            );
-            if i < nx && j < ny && k < nz {
-                offsets[i + nx * (j + ny * k)] = [0, 0, 0];
-            }
-        }
-        let linear = affine.linear();
-        // The 13 neighbours visited before a voxel in raster order (k, then j, then i).
-        let mut causal: Vec<[i64; 3]> = Vec::with_capacity(13);
-        for dk in -1..=0i64 {
-            for dj in -1..=1i64 {
-                for di in -1..=1i64 {
-                    if dk < 0 || (dk == 0 && dj < 0) || (dk == 0 && dj == 0 && di < 0) {
-                        causal.push([di, dj, dk]);
-                    }
-                }
-            }
-        }
+        Self::compute_coarse(reference, lo, dims, affine, d, 1)
+    }
+
+    /// As [`FastLandscape::compute`], with the propagation run on cells of `factor`³ voxels:
+    /// a cell is reference when it holds a reference voxel, and a voxel's degree is the
+    /// structuring element of the vector from its cell's origin cell centre to the voxel.
+    pub fn compute_coarse(
+        reference: &Mask,
+        lo: [i64; 3],
+        dims: [usize; 3],
+        affine: &Affine,
+        d: [f64; 3],
+        factor: usize,
+    ) -> Self {
+        let f = factor.max(1);
+        let cdims = dims.map(|n| n.div_ceil(f));
+        let [nx, ny, nz] = cdims;
+        let n = nx * ny * nz;
+        let fine_linear = affine.linear();
         let mut me = FastLandscape {
             lo,
             dims,
-            offsets,
-            linear,
-            direction: d,
+            factor: f,
+            cdims,
+            fine_linear,
+            ox: vec![NONE; n],
+            oy: vec![0; n],
+            oz: vec![0; n],
+            linear: fine_linear.map(|r| r.map(|v| (v * f as f64) as f32)),
+            direction: d.map(|v| v as f32),
         };
-        me.pass(&causal, true);
-        let anti: Vec<[i64; 3]> = causal.iter().map(|n| [-n[0], -n[1], -n[2]]).collect();
-        me.pass(&anti, false);
+        for p in reference.iter() {
+            let (i, j, k) = (p[0] - lo[0], p[1] - lo[1], p[2] - lo[2]);
+            if i >= 0
+                && j >= 0
+                && k >= 0
+                && (i as usize) < dims[0]
+                && (j as usize) < dims[1]
+                && (k as usize) < dims[2]
+            {
+                let (i, j, k) = (i as usize / f, j as usize / f, k as usize / f);
+                me.ox[i + nx * (j + ny * k)] = 0;
+            }
+        }
+        me.pass(true);
+        me.pass(false);
         me
     }
 
-    #[inline]
-    fn world(&self, o: [i16; 3]) -> [f64; 3] {
-        let l = &self.linear;
-        let (a, b, c) = (o[0] as f64, o[1] as f64, o[2] as f64);
-        [
-            l[0][0] * a + l[0][1] * b + l[0][2] * c,
-            l[1][0] * a + l[1][1] * b + l[1][2] * c,
-            l[2][0] * a + l[2][1] * b + l[2][2] * c,
-        ]
+    #[inline(always)]
+    fn key3(l: &[[f32; 3]; 3], d: &[f32; 3], a: f32, b: f32, c: f32) -> f32 {
+        let w0 = l[0][0] * a + l[0][1] * b + l[0][2] * c;
+        let w1 = l[1][0] * a + l[1][1] * b + l[1][2] * c;
+        let w2 = l[2][0] * a + l[2][1] * b + l[2][2] * c;
+        let n2 = w0 * w0 + w1 * w1 + w2 * w2;
+        let cc = w0 * d[0] + w1 * d[1] + w2 * d[2];
+        // cos β · |cos β|, monotone in β; the origin itself gets +∞.
+        if n2 > 0.0 {
+            cc * cc.abs() / n2
+        } else {
+            f32::INFINITY
+        }
     }
 
-    fn pass(&mut self, nbrs: &[[i64; 3]], forward: bool) {
-        let [nx, ny, nz] = self.dims;
+    fn pass(&mut self, forward: bool) {
+        let [nx, ny, nz] = self.cdims;
+        let l = self.linear;
         let d = self.direction;
-        let step: Vec<(isize, [i16; 3], [i64; 3])> = nbrs
-            .iter()
-            .map(|n| {
-                (
-                    (n[0] + n[1] * nx as i64 + n[2] * (nx * ny) as i64) as isize,
-                    [-n[0] as i16, -n[1] as i16, -n[2] as i16],
-                    *n,
-                )
-            })
-            .collect();
-        let total = nx * ny * nz;
-        for t in 0..total {
-            let l = if forward { t } else { total - 1 - t };
-            let cur = self.offsets[l];
-            let mut best_key = if cur[0] == NONE {
-                f64::NEG_INFINITY
-            } else {
-                key(self.world(cur), d)
-            };
-            if best_key == f64::INFINITY || best_key >= 1.0 {
-                continue;
+        let sgn: i64 = if forward { 1 } else { -1 };
+        // Neighbours in earlier rows (in pass order): (dj, dk) with dk = −s, or dk = 0 and dj = −s.
+        let mut rows_nb: Vec<(i64, i64)> = Vec::new();
+        for dj in -1..=1 {
+            rows_nb.push((dj, -sgn));
+        }
+        rows_nb.push((-sgn, 0));
+        let mut r = Row {
+            key: vec![0.0; nx],
+            x: vec![0; nx],
+            y: vec![0; nx],
+            z: vec![0; nx],
+        };
+        let ks: Vec<usize> = if forward {
+            (0..nz).collect()
+        } else {
+            (0..nz).rev().collect()
+        };
+        let js: Vec<usize> = if forward {
+            (0..ny).collect()
+        } else {
+            (0..ny).rev().collect()
+        };
+        for &k in &ks {
+            for &j in &js {
+                let base = nx * (j + ny * k);
+                // Current state of the row.
+                for i in 0..nx {
+                    let (a, b, c) = (self.ox[base + i], self.oy[base + i], self.oz[base + i]);
+                    r.x[i] = a;
+                    r.y[i] = b;
+                    r.z[i] = c;
+                    r.key[i] = if a == NONE {
+                        f32::NEG_INFINITY
+                    } else {
+                        Self::key3(&l, &d, a as f32, b as f32, c as f32)
+                    };
+                }
+                // Neighbours in earlier rows: candidate = neighbour's vector − (neighbour − here).
+                for &(dj, dk) in &rows_nb {
+                    let (jj, kk) = (j as i64 + dj, k as i64 + dk);
+                    if jj < 0 || kk < 0 || jj >= ny as i64 || kk >= nz as i64 {
+                        continue;
+                    }
+                    let nb = nx * (jj as usize + ny * kk as usize);
+                    for di in -1i64..=1 {
+                        let (i0, i1) = (
+                            if di < 0 { 1 } else { 0 },
+                            if di > 0 { nx.saturating_sub(1) } else { nx },
+                        );
+                        let (ey, ez) = (-dj as i16, -dk as i16);
+                        let ex = -di as i16;
+                        let src = (nb as i64 + di) as usize;
+                        for i in i0..i1 {
+                            let a = self.ox[src + i];
+                            let ca = a.wrapping_add(ex);
+                            let cb = self.oy[src + i].wrapping_add(ey);
+                            let cc = self.oz[src + i].wrapping_add(ez);
+                            let kc = Self::key3(&l, &d, ca as f32, cb as f32, cc as f32);
+                            let better = a != NONE && kc > r.key[i];
+                            r.key[i] = if better { kc } else { r.key[i] };
+                            r.x[i] = if better { ca } else { r.x[i] };
+                            r.y[i] = if better { cb } else { r.y[i] };
+                            r.z[i] = if better { cc } else { r.z[i] };
+                        }
+                    }
+                }
+                // The neighbour in the same row, swept in pass order.
+                let mut sweep = |i: usize, prev: usize, step: i16| {
+                    if r.x[prev] == NONE {
+                        return;
+                    }
+                    let (ca, cb, cc) = (r.x[prev].wrapping_add(step), r.y[prev], r.z[prev]);
+                    let kc = Self::key3(&l, &d, ca as f32, cb as f32, cc as f32);
+                    if kc > r.key[i] {
+                        r.key[i] = kc;
+                        r.x[i] = ca;
+                        r.y[i] = cb;
+                        r.z[i] = cc;
+                    }
+                };
+                if forward {
+                    for i in 1..nx {
+                        sweep(i, i - 1, 1);
+                    }
+                } else {
+                    for i in (0..nx.saturating_sub(1)).rev() {
+                        sweep(i, i + 1, -1);
+                    }
+                }
+                self.ox[base..base + nx].copy_from_slice(&r.x);
+                self.oy[base..base + nx].copy_from_slice(&r.y);
+                self.oz[base..base + nx].copy_from_slice(&r.z);
             }
-            let i = (l % nx) as i64;
-            let j = ((l / nx) % ny) as i64;
-            let k = (l / (nx * ny)) as i64;
-            let mut best = cur;
-            for &(dl, back, n) in &step {
-                let (ii, jj, kk) = (i + n[0], j + n[1], k + n[2]);
-                if ii < 0
-                    || jj < 0
-                    || kk < 0
-                    || ii >= nx as i64
-                    || jj >= ny as i64
-                    || kk >= nz as i64
-                {
-                    continue;
-                }
-                let o = self.offsets[(l as isize + dl) as usize];
-                if o[0] == NONE {
-                    continue;
-                }
-                // Vector from the neighbour's origin to here: (neighbour − origin) + (here − neighbour).
-                let cand = [
-                    o[0].saturating_add(back[0]),
-                    o[1].saturating_add(back[1]),
-                    o[2].saturating_add(back[2]),
-                ];
-                let kc = key(self.world(cand), d);
-                if kc > best_key {
-                    best_key = kc;
-                    best = cand;
-                }
-            }
-            self.offsets[l] = best;
         }
     }
 
@@ -262,15 +338,29 @@ impl FastLandscape {
         if i >= nx || j >= ny || k >= nz {
             return 0.0;
         }
-        let o = self.offsets[i + nx * (j + ny * k)];
-        if o[0] == NONE {
+        let f = self.factor;
+        let [cx, cy, _] = self.cdims;
+        let c = [i / f, j / f, k / f];
+        let l = c[0] + cx * (c[1] + cy * c[2]);
+        if self.ox[l] == NONE {
             return 0.0;
         }
-        degree_of_key(key(self.world(o), self.direction))
+        let cv = [self.ox[l] as f64, self.oy[l] as f64, self.oz[l] as f64];
+        // Vector (fine voxel units) from the origin cell's centre to this voxel.
+        let half = (f as f64 - 1.0) / 2.0;
+        let q = [i as f64, j as f64, k as f64];
+        let v: [f64; 3] = std::array::from_fn(|a| q[a] - (f as f64 * (c[a] as f64 - cv[a]) + half));
+        let lin = self.fine_linear;
+        let w = [
+            lin[0][0] * v[0] + lin[0][1] * v[1] + lin[0][2] * v[2],
+            lin[1][0] * v[0] + lin[1][1] * v[1] + lin[1][2] * v[2],
+            lin[2][0] * v[0] + lin[2][1] * v[1] + lin[2][2] * v[2],
+        ];
+        structuring_element(w, self.direction.map(|x| x as f64))
     }
 
-    /// Bytes of state per voxel.
-    pub const BYTES_PER_VOXEL: usize = 6;
+    /// Bytes of state per propagation cell.
+    pub const BYTES_PER_CELL: usize = 6;
 }
 
 /// How a target's landscape values are combined into one degree (Dubois & Prade fuzzy

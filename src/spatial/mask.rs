@@ -140,6 +140,52 @@ impl Mask {
         self.bits.iter().filter(|&&b| b).count()
     }
 
+    /// The voxels in raster order (i fastest), without allocating.
+    pub fn iter(&self) -> impl Iterator<Item = [i64; 3]> + '_ {
+        let [nx, ny, _] = self.dims;
+        let lo = self.lo;
+        self.bits
+            .iter()
+            .enumerate()
+            .filter(|(_, b)| **b)
+            .map(move |(l, _)| {
+                [
+                    lo[0] + (l % nx) as i64,
+                    lo[1] + ((l / nx) % ny) as i64,
+                    lo[2] + (l / (nx * ny)) as i64,
+                ]
+            })
+    }
+
+    /// Number of voxels in both sets (scans only the overlap of the two boxes).
+    pub fn intersection_count(&self, other: &Mask) -> usize {
+        let mut lo = [0i64; 3];
+        let mut hi = [0i64; 3];
+        for a in 0..3 {
+            lo[a] = self.lo[a].max(other.lo[a]);
+            hi[a] = (self.lo[a] + self.dims[a] as i64).min(other.lo[a] + other.dims[a] as i64);
+            if hi[a] <= lo[a] {
+                return 0;
+            }
+        }
+        let mut n = 0;
+        for k in lo[2]..hi[2] {
+            for j in lo[1]..hi[1] {
+                let (Some(a0), Some(b0)) = (self.local([lo[0], j, k]), other.local([lo[0], j, k]))
+                else {
+                    continue;
+                };
+                let len = (hi[0] - lo[0]) as usize;
+                n += self.bits[a0..a0 + len]
+                    .iter()
+                    .zip(&other.bits[b0..b0 + len])
+                    .filter(|(x, y)| **x && **y)
+                    .count();
+            }
+        }
+        n
+    }
+
     /// Global indices of the voxels, in raster order (i fastest).
     pub fn voxels(&self) -> Vec<[i64; 3]> {
         let mut out = Vec::new();

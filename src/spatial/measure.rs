@@ -7,7 +7,7 @@ use super::edt::edt;
 use super::landscape::{Direction, FastLandscape, LandscapeMode, exact_degree};
 use super::mask::{Adjacency, Mask};
 use super::nifti_io::LabelMap;
-use super::rcc8::{Rcc8, relate};
+use super::rcc8::{Rcc8, relate_counted};
 use super::region::{Region, RegionSpec, build_regions};
 use super::table::{Role, TableRow};
 use crate::facts::{self, Facts, Individual, Measurement, Provenance, Relation, Source};
@@ -304,7 +304,7 @@ pub fn measure(
                 .iter()
                 .map(|&y| {
                     let (mut mn, mut mx) = (f64::INFINITY, 0.0f64);
-                    for p in regions[y].mask.voxels() {
+                    for p in regions[y].mask.iter() {
                         let v = d[lin(p, lo, dims)];
                         mn = mn.min(v);
                         mx = mx.max(v);
@@ -320,11 +320,7 @@ pub fn measure(
         .iter()
         .copied()
         .filter(|&(a, b)| {
-            regions[a]
-                .mask
-                .voxels()
-                .iter()
-                .all(|&p| regions[b].extent.contains(p))
+            regions[a].mask.intersection_count(&regions[b].extent) == regions[a].voxels
                 && regions[a].extent != regions[b].extent
         })
         .collect();
@@ -344,9 +340,8 @@ pub fn measure(
                     .map(|&(a, _)| {
                         let mn = regions[a]
                             .mask
-                            .voxels()
                             .iter()
-                            .map(|&p| d[lin(p, ext.lo, ext.dims)])
+                            .map(|p| d[lin(p, ext.lo, ext.dims)])
                             .fold(f64::INFINITY, f64::min);
                         ((a, b), mn)
                     })
@@ -369,19 +364,11 @@ pub fn measure(
                 .map(|&(a, _)| a)
                 .collect();
             let reference = &regions[b].extent;
-            let targets: Vec<(usize, Vec<[i64; 3]>)> = subjects
+            // Targets: each subject's voxels outside the object's extent (none: no degree).
+            let targets: Vec<usize> = subjects
                 .iter()
-                .map(|&a| {
-                    (
-                        a,
-                        regions[a]
-                            .mask
-                            .voxels()
-                            .into_iter()
-                            .filter(|&p| !reference.contains(p))
-                            .collect(),
-                    )
-                })
+                .copied()
+                .filter(|&a| regions[a].mask.intersection_count(reference) < regions[a].voxels)
                 .collect();
             let boxes: Vec<&Mask> = std::iter::once(reference)
                 .chain(subjects.iter().map(|&a| &regions[a].mask))
@@ -400,17 +387,23 @@ pub fn measure(
                 .par_iter()
                 .flat_map_iter(|&dir| {
                     let dv = dir.vector();
-                    let fast = (dir_cfg.landscape == LandscapeMode::Fast)
-                        .then(|| FastLandscape::compute(reference, lo, dims, &affine, dv));
+                    let fast = (dir_cfg.landscape == LandscapeMode::Fast).then(|| {
+                        FastLandscape::compute_coarse(
+                            reference,
+                            lo,
+                            dims,
+                            &affine,
+                            dv,
+                            coarsening(dims, dir_cfg.max_landscape_cells),
+                        )
+                    });
                     targets
                         .iter()
-                        .filter(|(_, t)| !t.is_empty())
-                        .map(|(a, t)| {
+                        .map(|&a| {
+                            let t = regions[a].mask.iter().filter(|&p| !reference.contains(p));
                             let deg = match &fast {
-                                Some(l) => {
-                                    dir_cfg.aggregate.combine(t.iter().map(|&p| l.degree(p)))
-                                }
-                                None => dir_cfg.aggregate.combine(t.iter().map(|p| {
+                                Some(l) => dir_cfg.aggregate.combine(t.map(|p| l.degree(p))),
+                                None => dir_cfg.aggregate.combine(t.map(|p| {
                                     exact_degree(
                                         affine.apply([p[0] as f64, p[1] as f64, p[2] as f64]),
                                         &ref_world,
@@ -418,7 +411,7 @@ pub fn measure(
                                     )
                                 })),
                             };
-                            ((*a, b, dir), deg)
+                            ((a, b, dir), deg)
                         })
                         .collect::<Vec<_>>()
                 })
@@ -435,25 +428,30 @@ pub fn measure(
             let (ra, rb) = (&regions[a], &regions[b]);
             let mut rel = Vec::new();
             let mut mea = Vec::new();
-            let topo = relate(
+            let topo = relate_counted(
                 &ra.extent,
                 &ra.extent_surface,
+                ra.extent_voxels,
                 &rb.extent,
                 &rb.extent_surface,
+                rb.extent_voxels,
                 adjacency,
             );
             rel.push((topo.relation().to_string(), 1.0));
-            let shared = ra
-                .extent
-                .voxels()
-                .iter()
-                .filter(|&&p| rb.extent.contains(p))
-                .count();
+            let shared = ra.extent.intersection_count(&rb.extent);
             mea.push((
                 "overlap_fraction".to_string(),
                 round_to(shared as f64 / ra.extent_voxels.max(1) as f64, 1e6),
             ));
-            let touch = relate(&ra.mask, &ra.surface, &rb.mask, &rb.surface, adjacency) != Rcc8::DC;
+            let touch = relate_counted(
+                &ra.mask,
+                &ra.surface,
+                ra.voxels,
+                &rb.mask,
+                &rb.surface,
+                rb.voxels,
+                adjacency,
+            ) != Rcc8::DC;
             let (min_ab, h_ab) = directed
                 .get(&(a, b))
                 .copied()
@@ -581,6 +579,15 @@ pub fn measure(
     })
 }
 
+/// The smallest integer factor f such that a box of `dims` has at most `max_cells` cells of f³ voxels.
+pub fn coarsening(dims: [usize; 3], max_cells: usize) -> usize {
+    let mut f = 1;
+    while dims.iter().map(|n| n.div_ceil(f)).product::<usize>() > max_cells.max(1) {
+        f += 1;
+    }
+    f
+}
+
 /// Smallest box holding every mask's box.
 pub fn union_box(masks: &[&Mask]) -> ([i64; 3], [usize; 3]) {
     let mut lo = [i64::MAX; 3];
@@ -604,7 +611,7 @@ pub fn union_box(masks: &[&Mask]) -> ([i64; 3], [usize; 3]) {
 /// Paints a mask into a box as a flat boolean array.
 pub fn paint(mask: &Mask, lo: [i64; 3], dims: [usize; 3]) -> Vec<bool> {
     let mut out = vec![false; dims[0] * dims[1] * dims[2]];
-    for p in mask.voxels() {
+    for p in mask.iter() {
         out[lin(p, lo, dims)] = true;
     }
     out

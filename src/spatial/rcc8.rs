@@ -227,9 +227,20 @@ pub fn relate(
     b_surface: &[[i64; 3]],
     adjacency: Adjacency,
 ) -> Rcc8 {
-    let na = a.count();
-    let nb = b.count();
-    let shared = a.voxels().iter().filter(|&&p| b.contains(p)).count();
+    relate_counted(a, a_surface, a.count(), b, b_surface, b.count(), adjacency)
+}
+
+/// [`relate`] with the two sets' sizes already known.
+pub fn relate_counted(
+    a: &Mask,
+    a_surface: &[[i64; 3]],
+    na: usize,
+    b: &Mask,
+    b_surface: &[[i64; 3]],
+    nb: usize,
+    adjacency: Adjacency,
+) -> Rcc8 {
+    let shared = a.intersection_count(b);
     let touches_other = |s: &[[i64; 3]], other: &Mask| {
         s.iter().any(|p| {
             adjacency
@@ -267,15 +278,4 @@ pub fn relate(
         };
     }
     PO
-}
-
-/// True when some voxel of `a` shares a voxel with `b` or is adjacent to one.
-pub fn connected(a_surface: &[[i64; 3]], a: &Mask, b: &Mask, adjacency: Adjacency) -> bool {
-    a_surface.iter().any(|p| {
-        b.contains(*p)
-            || adjacency
-                .offsets()
-                .iter()
-                .any(|o| b.contains([p[0] + o[0], p[1] + o[1], p[2] + o[2]]))
-    }) || a.voxels().iter().any(|&p| b.contains(p))
 }

@@ -211,6 +211,16 @@ fn benches(c: &mut Criterion) {
         );
     }
     peak_rss("full_plan_256_12_labels");
+    // The same plan with landscapes on 4×4×4 cells (max_landscape_cells = 2^18).
+    let mut coarse = MeasureOptions::default();
+    coarse.config.directional.max_landscape_cells = 1 << 18;
+    timed(
+        "full_plan_256_12_labels (max_landscape_cells = 2^18)",
+        3,
+        || {
+            black_box(measure(std::slice::from_ref(&map), &rows, "bench.tsv", &coarse).unwrap());
+        },
+    );
 }
 
 criterion_group!(spatial, benches);

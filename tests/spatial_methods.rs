@@ -576,7 +576,7 @@ fn aggregated_degrees_of_fast_and_coarse_landscapes_stay_near_exact() {
         worst.push(w);
     }
     eprintln!("worst |aggregated degree - exact| at factors 1, 2, 4: {worst:?}");
-    // Measured 0.0227, 0.0302 and 0.0496 (docs/spatial.md).
+    // Measured 0.0227, 0.0319 and 0.0544 (docs/spatial.md).
     assert!(worst[0] <= 0.03, "{worst:?}");
     assert!(worst[1] <= 0.04, "{worst:?}");
     assert!(worst[2] <= 0.06, "{worst:?}");

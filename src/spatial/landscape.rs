@@ -144,12 +144,138 @@ pub struct FastLandscape {
     direction: [f32; 3],
 }
 
-/// Per-row scratch of the propagation.
-struct Row {
-    key: Vec<f32>,
-    x: Vec<i16>,
-    y: Vec<i16>,
-    z: Vec<i16>,
+/// The propagation state of one slice as f32 vectors (NaN = no origin yet).
+struct SliceState {
+    x: Vec<f32>,
+    y: Vec<f32>,
+    z: Vec<f32>,
+}
+
+/// A slice-state view used as the source of a relaxation (a whole slice or one row).
+trait Source {
+    fn rows(&self, l: usize, n: usize) -> (&[f32], &[f32], &[f32]);
+}
+
+impl Source for SliceState {
+    #[inline(always)]
+    fn rows(&self, l: usize, n: usize) -> (&[f32], &[f32], &[f32]) {
+        (&self.x[l..l + n], &self.y[l..l + n], &self.z[l..l + n])
+    }
+}
+
+/// A copy of one row, used when source and target rows lie in the same slice.
+struct RowCopy {
+    start: usize,
+    x: Vec<f32>,
+    y: Vec<f32>,
+    z: Vec<f32>,
+}
+
+impl Source for RowCopy {
+    #[inline(always)]
+    fn rows(&self, l: usize, n: usize) -> (&[f32], &[f32], &[f32]) {
+        let i = l - self.start;
+        (&self.x[i..i + n], &self.y[i..i + n], &self.z[i..i + n])
+    }
+}
+
+impl SliceState {
+    fn new(n: usize) -> Self {
+        SliceState {
+            x: vec![f32::NAN; n],
+            y: vec![0.0; n],
+            z: vec![0.0; n],
+        }
+    }
+
+    fn load(&mut self, ox: &[i16], oy: &[i16], oz: &[i16]) {
+        for i in 0..ox.len() {
+            self.x[i] = if ox[i] == NONE {
+                f32::NAN
+            } else {
+                ox[i] as f32
+            };
+            self.y[i] = oy[i] as f32;
+            self.z[i] = oz[i] as f32;
+        }
+    }
+
+    fn store(&self, ox: &mut [i16], oy: &mut [i16], oz: &mut [i16]) {
+        for i in 0..ox.len() {
+            let x = self.x[i];
+            ox[i] = if x.is_nan() { NONE } else { x as i16 };
+            oy[i] = self.y[i] as i16;
+            oz[i] = self.z[i] as i16;
+        }
+    }
+
+    /// A copy of the source row and the state itself (the target row is written in place).
+    fn split_rows(&mut self, src: usize, _row: usize, n: usize) -> (RowCopy, &mut SliceState) {
+        let copy = RowCopy {
+            start: src,
+            x: self.x[src..src + n].to_vec(),
+            y: self.y[src..src + n].to_vec(),
+            z: self.z[src..src + n].to_vec(),
+        };
+        (copy, self)
+    }
+}
+
+/// The numerator c·|c| and denominator |w|² of the angle key of index vector (a, b, c).
+#[inline(always)]
+fn key_parts(l: &[[f32; 3]; 3], d: &[f32; 3], a: f32, b: f32, c: f32) -> (f32, f32) {
+    let w0 = l[0][0] * a + l[0][1] * b + l[0][2] * c;
+    let w1 = l[1][0] * a + l[1][1] * b + l[1][2] * c;
+    let w2 = l[2][0] * a + l[2][1] * b + l[2][2] * c;
+    let cc = w0 * d[0] + w1 * d[1] + w2 * d[2];
+    (cc * cc.abs(), w0 * w0 + w1 * w1 + w2 * w2)
+}
+
+/// Offers every voxel of row `row` of `cur` the origins of row `src` of `from`, shifted by
+/// di = −1, 0, 1 along the row. `e` = (−dj, −dk) of the neighbour, i.e. here − neighbour.
+#[allow(clippy::too_many_arguments)]
+#[inline(always)]
+fn relax_row<S: Source>(
+    l: &[[f32; 3]; 3],
+    d: &[f32; 3],
+    from: &S,
+    src: usize,
+    e: [f32; 2],
+    cur: &mut SliceState,
+    row: usize,
+    num: &mut [f32],
+    den: &mut [f32],
+    nx: usize,
+) {
+    for di in -1i64..=1 {
+        let (i0, i1) = (
+            if di < 0 { 1 } else { 0 },
+            if di > 0 { nx.saturating_sub(1) } else { nx },
+        );
+        if i1 <= i0 {
+            continue;
+        }
+        let n = i1 - i0;
+        let s0 = (src as i64 + i0 as i64 + di) as usize;
+        let (sx, sy, sz) = from.rows(s0, n);
+        let ex = -di as f32;
+        let kn_ = &mut num[i0..i0 + n];
+        let kd_ = &mut den[i0..i0 + n];
+        let rx = &mut cur.x[row + i0..row + i0 + n];
+        let ry = &mut cur.y[row + i0..row + i0 + n];
+        let rz = &mut cur.z[row + i0..row + i0 + n];
+        for t in 0..n {
+            let (ca, cb, cc) = (sx[t] + ex, sy[t] + e[0], sz[t] + e[1]);
+            let (kn, n2) = key_parts(l, d, ca, cb, cc);
+            // NaN (no origin) compares false.
+            let better = kn * kd_[t] > kn_[t] * n2;
+            kn_[t] = if better { kn } else { kn_[t] };
+            kd_[t] = if better { n2 } else { kd_[t] };
+            rx[t] = if better { ca } else { rx[t] };
+            ry[t] = if better { cb } else { ry[t] };
+            rz[t] = if better { cc } else { rz[t] };
+        }
+    }
 }
 
 impl FastLandscape {
@@ -211,38 +337,40 @@ impl FastLandscape {
         me
     }
 
-    #[inline(always)]
-    fn key3(l: &[[f32; 3]; 3], d: &[f32; 3], a: f32, b: f32, c: f32) -> f32 {
-        let w0 = l[0][0] * a + l[0][1] * b + l[0][2] * c;
-        let w1 = l[1][0] * a + l[1][1] * b + l[1][2] * c;
-        let w2 = l[2][0] * a + l[2][1] * b + l[2][2] * c;
-        let n2 = w0 * w0 + w1 * w1 + w2 * w2;
-        let cc = w0 * d[0] + w1 * d[1] + w2 * d[2];
-        // cos β · |cos β|, monotone in β; the origin itself gets +∞.
-        if n2 > 0.0 {
-            cc * cc.abs() / n2
-        } else {
-            f32::INFINITY
+    fn pass(&mut self, forward: bool) {
+        #[cfg(target_arch = "x86_64")]
+        {
+            if std::is_x86_feature_detected!("avx2") && std::is_x86_feature_detected!("fma") {
+                // SAFETY: the CPU supports the features the function is compiled for.
+                unsafe { self.pass_avx2(forward) };
+                return;
+            }
         }
+        self.pass_impl(forward);
     }
 
-    fn pass(&mut self, forward: bool) {
+    /// The same pass compiled for AVX2 and FMA (8 lanes of f32).
+    #[cfg(target_arch = "x86_64")]
+    #[target_feature(enable = "avx2,fma")]
+    unsafe fn pass_avx2(&mut self, forward: bool) {
+        self.pass_impl(forward);
+    }
+
+    /// One raster pass. The state of the slice being swept and of the slice before it is
+    /// held as f32 (NaN = no origin yet); the angle key cos β·|cos β| is kept as a fraction
+    /// num/den and compared by cross-multiplication, so the inner loops have no division
+    /// and no branch.
+    #[inline(always)]
+    fn pass_impl(&mut self, forward: bool) {
         let [nx, ny, nz] = self.cdims;
+        let plane = nx * ny;
         let l = self.linear;
         let d = self.direction;
         let sgn: i64 = if forward { 1 } else { -1 };
-        // Neighbours in earlier rows (in pass order): (dj, dk) with dk = −s, or dk = 0 and dj = −s.
-        let mut rows_nb: Vec<(i64, i64)> = Vec::new();
-        for dj in -1..=1 {
-            rows_nb.push((dj, -sgn));
-        }
-        rows_nb.push((-sgn, 0));
-        let mut r = Row {
-            key: vec![0.0; nx],
-            x: vec![0; nx],
-            y: vec![0; nx],
-            z: vec![0; nx],
-        };
+        let mut prev = SliceState::new(plane);
+        let mut cur = SliceState::new(plane);
+        let mut num = vec![0.0f32; nx];
+        let mut den = vec![0.0f32; nx];
         let ks: Vec<usize> = if forward {
             (0..nz).collect()
         } else {
@@ -253,78 +381,130 @@ impl FastLandscape {
         } else {
             (0..ny).rev().collect()
         };
+        let mut have_prev = false;
         for &k in &ks {
+            let base = plane * k;
+            cur.load(
+                &self.ox[base..base + plane],
+                &self.oy[base..base + plane],
+                &self.oz[base..base + plane],
+            );
             for &j in &js {
-                let base = nx * (j + ny * k);
-                // Current state of the row.
+                let row = nx * j;
+                // Keys of the current state.
                 for i in 0..nx {
-                    let (a, b, c) = (self.ox[base + i], self.oy[base + i], self.oz[base + i]);
-                    r.x[i] = a;
-                    r.y[i] = b;
-                    r.z[i] = c;
-                    r.key[i] = if a == NONE {
-                        f32::NEG_INFINITY
+                    let (kn, n2) =
+                        key_parts(&l, &d, cur.x[row + i], cur.y[row + i], cur.z[row + i]);
+                    let none = cur.x[row + i].is_nan();
+                    let origin = n2 == 0.0;
+                    num[i] = if none {
+                        -2.0
+                    } else if origin {
+                        1.0
                     } else {
-                        Self::key3(&l, &d, a as f32, b as f32, c as f32)
+                        kn
+                    };
+                    den[i] = if none {
+                        1.0
+                    } else if origin {
+                        0.0
+                    } else {
+                        n2
                     };
                 }
-                // Neighbours in earlier rows: candidate = neighbour's vector − (neighbour − here).
-                for &(dj, dk) in &rows_nb {
-                    let (jj, kk) = (j as i64 + dj, k as i64 + dk);
-                    if jj < 0 || kk < 0 || jj >= ny as i64 || kk >= nz as i64 {
-                        continue;
-                    }
-                    let nb = nx * (jj as usize + ny * kk as usize);
-                    for di in -1i64..=1 {
-                        let (i0, i1) = (
-                            if di < 0 { 1 } else { 0 },
-                            if di > 0 { nx.saturating_sub(1) } else { nx },
+                // Neighbours in earlier rows: three in the previous slice's rows j−1..j+1
+                // (dk = −s) and one row j−s of this slice, each with di = −1, 0, 1.
+                for dj in -1i64..=1 {
+                    let jj = j as i64 + dj;
+                    if have_prev && jj >= 0 && jj < ny as i64 {
+                        let src = nx * jj as usize;
+                        relax_row(
+                            &l,
+                            &d,
+                            &prev,
+                            src,
+                            [-dj as f32, sgn as f32],
+                            &mut cur,
+                            row,
+                            &mut num,
+                            &mut den,
+                            nx,
                         );
-                        let (ey, ez) = (-dj as i16, -dk as i16);
-                        let ex = -di as i16;
-                        let src = (nb as i64 + di) as usize;
-                        for i in i0..i1 {
-                            let a = self.ox[src + i];
-                            let ca = a.wrapping_add(ex);
-                            let cb = self.oy[src + i].wrapping_add(ey);
-                            let cc = self.oz[src + i].wrapping_add(ez);
-                            let kc = Self::key3(&l, &d, ca as f32, cb as f32, cc as f32);
-                            let better = a != NONE && kc > r.key[i];
-                            r.key[i] = if better { kc } else { r.key[i] };
-                            r.x[i] = if better { ca } else { r.x[i] };
-                            r.y[i] = if better { cb } else { r.y[i] };
-                            r.z[i] = if better { cc } else { r.z[i] };
-                        }
                     }
                 }
+                let jj = j as i64 - sgn;
+                if jj >= 0 && jj < ny as i64 {
+                    let src = nx * jj as usize;
+                    let (head, tail) = cur.split_rows(src, row, nx);
+                    relax_row(
+                        &l,
+                        &d,
+                        &head,
+                        src,
+                        [sgn as f32, 0.0],
+                        tail,
+                        row,
+                        &mut num,
+                        &mut den,
+                        nx,
+                    );
+                }
                 // The neighbour in the same row, swept in pass order.
-                let mut sweep = |i: usize, prev: usize, step: i16| {
-                    if r.x[prev] == NONE {
-                        return;
-                    }
-                    let (ca, cb, cc) = (r.x[prev].wrapping_add(step), r.y[prev], r.z[prev]);
-                    let kc = Self::key3(&l, &d, ca as f32, cb as f32, cc as f32);
-                    if kc > r.key[i] {
-                        r.key[i] = kc;
-                        r.x[i] = ca;
-                        r.y[i] = cb;
-                        r.z[i] = cc;
+                let step = sgn as f32;
+                let mut sweep = |i: usize, p: usize| {
+                    let (ca, cb, cc) = (cur.x[row + p] + step, cur.y[row + p], cur.z[row + p]);
+                    let (kn, n2) = key_parts(&l, &d, ca, cb, cc);
+                    if kn * den[i] > num[i] * n2 {
+                        num[i] = kn;
+                        den[i] = n2;
+                        cur.x[row + i] = ca;
+                        cur.y[row + i] = cb;
+                        cur.z[row + i] = cc;
                     }
                 };
                 if forward {
                     for i in 1..nx {
-                        sweep(i, i - 1, 1);
+                        sweep(i, i - 1);
                     }
                 } else {
                     for i in (0..nx.saturating_sub(1)).rev() {
-                        sweep(i, i + 1, -1);
+                        sweep(i, i + 1);
                     }
                 }
-                self.ox[base..base + nx].copy_from_slice(&r.x);
-                self.oy[base..base + nx].copy_from_slice(&r.y);
-                self.oz[base..base + nx].copy_from_slice(&r.z);
             }
+            cur.store(
+                &mut self.ox[base..base + plane],
+                &mut self.oy[base..base + plane],
+                &mut self.oz[base..base + plane],
+            );
+            std::mem::swap(&mut prev, &mut cur);
+            have_prev = true;
         }
+    }
+
+    /// The propagation cell holding a global voxel, if inside the box.
+    pub fn cell_of(&self, p: [i64; 3]) -> Option<usize> {
+        cell_index(p, self.lo, self.dims, self.factor)
+    }
+
+    /// The degree of a cell, read at its centre (for factor 1, the voxel's own degree).
+    pub fn cell_degree(&self, c: usize) -> f64 {
+        if self.ox[c] == NONE {
+            return 0.0;
+        }
+        let f = self.factor as f64;
+        let v = [
+            self.ox[c] as f64 * f,
+            self.oy[c] as f64 * f,
+            self.oz[c] as f64 * f,
+        ];
+        let l = &self.fine_linear;
+        let w = [
+            l[0][0] * v[0] + l[0][1] * v[1] + l[0][2] * v[2],
+            l[1][0] * v[0] + l[1][1] * v[1] + l[1][2] * v[2],
+            l[2][0] * v[0] + l[2][1] * v[1] + l[2][2] * v[2],
+        ];
+        structuring_element(w, self.direction.map(|x| x as f64))
     }
 
     /// The degree at a global voxel (0 outside the box or where no origin was found).
@@ -363,6 +543,28 @@ impl FastLandscape {
     pub const BYTES_PER_CELL: usize = 6;
 }
 
+/// Number of propagation cells of a box of `dims` voxels at coarsening `factor`.
+pub fn cell_count(dims: [usize; 3], factor: usize) -> usize {
+    dims.iter().map(|n| n.div_ceil(factor.max(1))).product()
+}
+
+/// The propagation cell (linear index) holding global voxel `p` in the box `lo .. lo+dims`
+/// at coarsening `factor`, if inside the box.
+pub fn cell_index(p: [i64; 3], lo: [i64; 3], dims: [usize; 3], factor: usize) -> Option<usize> {
+    let f = factor.max(1);
+    let mut c = [0usize; 3];
+    for a in 0..3 {
+        let q = p[a] - lo[a];
+        if q < 0 || q as usize >= dims[a] {
+            return None;
+        }
+        c[a] = q as usize / f;
+    }
+    let cx = dims[0].div_ceil(f);
+    let cy = dims[1].div_ceil(f);
+    Some(c[0] + cx * (c[1] + cy * c[2]))
+}
+
 /// How a target's landscape values are combined into one degree (Dubois & Prade fuzzy
 /// pattern matching, as Bloch 1999 §3 uses it).
 #[derive(
@@ -379,6 +581,30 @@ pub enum Aggregate {
 }
 
 impl Aggregate {
+    /// Combines degrees given with a voxel count each (a cell read once for all its
+    /// target voxels); 0 for an empty target.
+    pub fn combine_weighted(self, degrees: impl Iterator<Item = (f64, u32)>) -> f64 {
+        let mut n = 0u64;
+        let (mut lo, mut hi, mut sum) = (f64::INFINITY, f64::NEG_INFINITY, 0.0);
+        for (v, w) in degrees {
+            if w == 0 {
+                continue;
+            }
+            n += w as u64;
+            lo = lo.min(v);
+            hi = hi.max(v);
+            sum += v * w as f64;
+        }
+        if n == 0 {
+            return 0.0;
+        }
+        match self {
+            Aggregate::Necessity => lo,
+            Aggregate::Mean => sum / n as f64,
+            Aggregate::Possibility => hi,
+        }
+    }
+
     /// Combines the degrees of a crisp target's voxels; 0 for an empty target.
     pub fn combine(self, degrees: impl Iterator<Item = f64>) -> f64 {
         let mut n = 0usize;

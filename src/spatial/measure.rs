@@ -4,7 +4,9 @@ use super::SpatialError;
 use super::affine::round_to;
 use super::config::MeasureConfig;
 use super::edt::edt;
-use super::landscape::{Direction, FastLandscape, LandscapeMode, exact_degree};
+use super::landscape::{
+    Direction, FastLandscape, LandscapeMode, cell_count, cell_index, exact_degree,
+};
 use super::mask::{Adjacency, Mask};
 use super::nifti_io::LabelMap;
 use super::rcc8::{Rcc8, relate_counted};
@@ -383,26 +385,49 @@ pub fn measure(
             } else {
                 Vec::new()
             };
+            // For fast landscapes: each target as (cell, voxel count) pairs, counted once for
+            // the six directions; every voxel of a cell is read at the cell's centre.
+            let factor = coarsening(dims, dir_cfg.max_landscape_cells);
+            let cells: Vec<Vec<(usize, u32)>> = if dir_cfg.landscape == LandscapeMode::Fast {
+                let mut count = vec![0u32; cell_count(dims, factor)];
+                targets
+                    .iter()
+                    .map(|&a| {
+                        let mut touched = Vec::new();
+                        for p in regions[a].mask.iter().filter(|&p| !reference.contains(p)) {
+                            if let Some(c) = cell_index(p, lo, dims, factor) {
+                                if count[c] == 0 {
+                                    touched.push(c);
+                                }
+                                count[c] += 1;
+                            }
+                        }
+                        touched.sort_unstable();
+                        touched
+                            .into_iter()
+                            .map(|c| (c, std::mem::take(&mut count[c])))
+                            .collect()
+                    })
+                    .collect()
+            } else {
+                Vec::new()
+            };
             Direction::ALL
                 .par_iter()
                 .flat_map_iter(|&dir| {
                     let dv = dir.vector();
                     let fast = (dir_cfg.landscape == LandscapeMode::Fast).then(|| {
-                        FastLandscape::compute_coarse(
-                            reference,
-                            lo,
-                            dims,
-                            &affine,
-                            dv,
-                            coarsening(dims, dir_cfg.max_landscape_cells),
-                        )
+                        FastLandscape::compute_coarse(reference, lo, dims, &affine, dv, factor)
                     });
                     targets
                         .iter()
-                        .map(|&a| {
+                        .enumerate()
+                        .map(|(ti, &a)| {
                             let t = regions[a].mask.iter().filter(|&p| !reference.contains(p));
                             let deg = match &fast {
-                                Some(l) => dir_cfg.aggregate.combine(t.map(|p| l.degree(p))),
+                                Some(l) => dir_cfg.aggregate.combine_weighted(
+                                    cells[ti].iter().map(|&(c, n)| (l.cell_degree(c), n)),
+                                ),
                                 None => dir_cfg.aggregate.combine(t.map(|p| {
                                     exact_degree(
                                         affine.apply([p[0] as f64, p[1] as f64, p[2] as f64]),

@@ -18,7 +18,7 @@ pub fn write_pictures(
     grid: &LabelMap,
     regions: &[Region],
     facts: &Facts,
-    _config: &MeasureConfig,
+    config: &MeasureConfig,
 ) -> Result<(), SpatialError> {
     let werr = |p: &Path, e: String| SpatialError::Write {
         file: p.display().to_string(),
@@ -45,12 +45,13 @@ pub fn write_pictures(
         let heat = best.and_then(|(r, d)| {
             let obj = regions.iter().find(|x| x.id == r.object)?;
             let dims = grid.shape;
-            Some(FastLandscape::compute(
+            Some(FastLandscape::compute_coarse(
                 &obj.extent,
                 [0, 0, 0],
                 dims,
                 &grid.affine,
                 d.vector(),
+                super::measure::coarsening(dims, config.directional.max_landscape_cells),
             ))
         });
         let centre = mean_index(&lesion.mask);

@@ -392,3 +392,44 @@ fn png_pictures_are_written_for_findings() {
     }
     assert!(!pics.join("liver_axial.png").exists());
 }
+
+#[test]
+fn distances_are_symmetric_and_pairs_must_name_known_regions() {
+    let dir = tmpdir("sym");
+    let (map, table) = abdomen(&dir, "s.nii");
+    let (code, out, err) = run(&[map.to_str().unwrap(), "--labels", table.to_str().unwrap()]);
+    assert_eq!(code, 0, "{err}");
+    let v = json(&out);
+    // Both quantities are symmetric by definition (contract: min distance between the two
+    // regions' voxel centres; Hausdorff "symmetric").
+    for (a, b) in [
+        ("liver", "spleen"),
+        ("spleen", "lesion1"),
+        ("lesion1", "liver"),
+    ] {
+        for q in ["min_distance_mm", "hausdorff_mm"] {
+            assert_eq!(quantity(&v, a, b, q), quantity(&v, b, a, q), "{a} {b} {q}");
+        }
+    }
+    // Hand check on the grid: the spleen's x-extent ends at −16 mm and the liver's begins
+    // at +2 mm (voxel centres every 2 mm), so the gap is at least 18 mm.
+    assert!(quantity(&v, "spleen", "liver", "min_distance_mm").unwrap() >= 18.0);
+    let (code, _, err) = run(&[
+        map.to_str().unwrap(),
+        "--labels",
+        table.to_str().unwrap(),
+        "--pairs",
+        "ghost>liver",
+    ]);
+    assert_eq!(code, 2);
+    assert!(err.contains("ghost"), "{err}");
+    let (code, _, err) = run(&[
+        map.to_str().unwrap(),
+        "--labels",
+        table.to_str().unwrap(),
+        "--pairs",
+        "liver",
+    ]);
+    assert_eq!(code, 2);
+    assert!(err.contains("SUBJECTS>OBJECTS"), "{err}");
+}

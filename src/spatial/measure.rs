@@ -264,6 +264,18 @@ pub fn measure(
     } else {
         opts.pairs.clone()
     };
+    for sel in &selections {
+        for item in sel.subjects.iter().chain(&sel.objects) {
+            if let Selector::Name(n) = item
+                && !regions.iter().any(|r| r.id == *n || r.class == *n)
+            {
+                return Err(SpatialError::Usage(format!(
+                    "--pairs {:?}: {n:?} is neither an individual nor a class of the table {table_file}",
+                    sel.text
+                )));
+            }
+        }
+    }
 
     let n = regions.len();
     let mut plan: Vec<(usize, usize)> = Vec::new();

@@ -581,3 +581,27 @@ fn aggregated_degrees_of_fast_and_coarse_landscapes_stay_near_exact() {
     assert!(worst[1] <= 0.04, "{worst:?}");
     assert!(worst[2] <= 0.06, "{worst:?}");
 }
+
+#[test]
+fn data_after_a_larger_vox_offset_and_a_table_with_a_bom_are_read() {
+    // nifti1.h: the voxel data start at vox_offset (a multiple of 16, at least 352); bytes
+    // in between belong to extensions. A UTF-8 byte-order mark is not part of the header.
+    let dir = std::env::temp_dir().join(format!("wherefore-voxoff-{}", std::process::id()));
+    std::fs::create_dir_all(&dir).unwrap();
+    let labels: Vec<i64> = (0..27).map(|i| (i % 3) as i64).collect();
+    let mut h = RawHeader::for_labels([3, 3, 3], dtype::INT16, &Affine::identity());
+    h.vox_offset = 416.0;
+    for gz in [false, true] {
+        let p = dir.join(if gz { "v.nii.gz" } else { "v.nii" });
+        write_nifti(&p, &h, &encode_labels(&labels, dtype::INT16).unwrap(), gz).unwrap();
+        let m = read_label_map(&p).unwrap();
+        let got: Vec<i64> = m.codes.iter().map(|&c| m.values[c as usize]).collect();
+        assert_eq!(got, labels);
+    }
+    let rows = parse_table(
+        "\u{feff}value\tindividual\tclass\n1\ta\thttp://x#A\n",
+        "bom.tsv",
+    )
+    .unwrap();
+    assert_eq!(rows[0].individual, "a");
+}

@@ -222,10 +222,15 @@ pub fn read_label_map(path: &Path) -> Result<LabelMap, SpatialError> {
             ),
         ));
     }
-    let mut skip = vec![0u8; (vo - 348) as usize];
-    let got = read_full(&mut input, &mut skip).map_err(|e| bad(path, io_msg(e)))?;
-    if got < skip.len() {
-        return Err(bad(path, "the file ends inside the header extensions"));
+    // Skip the extensions without allocating for them.
+    let want = vo - 348;
+    let got = std::io::copy(&mut (&mut input).take(want), &mut std::io::sink())
+        .map_err(|e| bad(path, io_msg(e)))?;
+    if got < want {
+        return Err(bad(
+            path,
+            "the file ends inside the header extensions (before vox_offset)",
+        ));
     }
 
     let affine_and_warn = header_affine(&h, path)?;

@@ -68,6 +68,7 @@ pub fn read_table(path: &Path) -> Result<Vec<TableRow>, SpatialError> {
 
 /// Parses a label table's text; `file` names it in errors.
 pub fn parse_table(text: &str, file: &str) -> Result<Vec<TableRow>, SpatialError> {
+    let text = text.strip_prefix('\u{feff}').unwrap_or(text);
     let err = |line: usize, m: String| SpatialError::Table {
         file: file.to_string(),
         line,

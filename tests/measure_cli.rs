@@ -433,3 +433,65 @@ fn distances_are_symmetric_and_pairs_must_name_known_regions() {
     assert_eq!(code, 2);
     assert!(err.contains("SUBJECTS>OBJECTS"), "{err}");
 }
+
+#[test]
+fn config_file_and_options_change_the_parameters() {
+    let dir = tmpdir("config");
+    let (map, table) = abdomen(&dir, "c.nii");
+    let cfg = dir.join("m.toml");
+    // near = 1 up to 30 mm: the spleen–liver gap (≥ 18 mm, < 30 mm) becomes fully near.
+    std::fs::write(
+        &cfg,
+        "[near]\nfull_until_mm = 30.0\nzero_from_mm = 40.0\n[far]\nzero_until_mm = 40.0\nfull_from_mm = 80.0\n[depth]\nperipheral_until_mm = 5.0\ndeep_from_mm = 15.0\n[directional]\naggregate = \"necessity\"\nlandscape = \"exact\"\nmax_landscape_cells = 2097152\n[topology]\nadjacency = 6\n",
+    )
+    .unwrap();
+    let (code, out, err) = run(&[
+        map.to_str().unwrap(),
+        "--labels",
+        table.to_str().unwrap(),
+        "--config",
+        cfg.to_str().unwrap(),
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let v = json(&out);
+    assert_eq!(rel(&v, "spleen", "near", "liver"), Some(1.0));
+    assert_eq!(v["provenance"]["parameters"]["topology"]["adjacency"], 6);
+    assert_eq!(
+        v["provenance"]["parameters"]["directional"]["landscape"],
+        "exact"
+    );
+    // Options override the file.
+    let (code, out, _) = run(&[
+        map.to_str().unwrap(),
+        "--labels",
+        table.to_str().unwrap(),
+        "--config",
+        cfg.to_str().unwrap(),
+        "--aggregate",
+        "possibility",
+    ]);
+    assert_eq!(code, 0);
+    assert_eq!(
+        json(&out)["provenance"]["parameters"]["directional"]["aggregate"],
+        "possibility"
+    );
+    // A bad file: exit 2 naming it.
+    std::fs::write(&cfg, "[near]\nfull_until_mm = 30.0\n").unwrap();
+    let (code, _, err) = run(&[
+        map.to_str().unwrap(),
+        "--labels",
+        table.to_str().unwrap(),
+        "--config",
+        cfg.to_str().unwrap(),
+    ]);
+    assert_eq!(code, 2);
+    assert!(err.contains("m.toml"), "{err}");
+    let (code, _, _) = run(&[
+        map.to_str().unwrap(),
+        "--labels",
+        table.to_str().unwrap(),
+        "--adjacency",
+        "8",
+    ]);
+    assert_eq!(code, 2);
+}

@@ -605,3 +605,15 @@ fn data_after_a_larger_vox_offset_and_a_table_with_a_bom_are_read() {
     .unwrap();
     assert_eq!(rows[0].individual, "a");
 }
+
+#[test]
+fn fast_arccos_stays_within_its_published_error() {
+    // Abramowitz & Stegun 1964, formula 4.4.46: |error| ≤ 2·10⁻⁸ on [0, 1]; checked against
+    // the standard library's acos over [−1, 1].
+    use wherefore::spatial::landscape::acos_fast;
+    let worst = (0..=20_000)
+        .map(|i| -1.0 + i as f64 / 10_000.0)
+        .map(|x| (acos_fast(x) - x.acos()).abs())
+        .fold(0.0f64, f64::max);
+    assert!(worst <= 2.5e-8, "{worst}");
+}

@@ -75,6 +75,42 @@ pub fn structuring_element(v: [f64; 3], d: [f64; 3]) -> f64 {
     (1.0 - FRAC_2_PI * c.acos()).max(0.0)
 }
 
+/// arccos by Abramowitz & Stegun 1964, formula 4.4.46 (|error| ≤ 2·10⁻⁸ rad on [0, 1]),
+/// extended to [−1, 0) by acos(−x) = π − acos(x); about three times cheaper than libm's.
+pub fn acos_fast(x: f64) -> f64 {
+    const A: [f64; 8] = [
+        1.570_796_305_0,
+        -0.214_598_801_6,
+        0.088_978_987_4,
+        -0.050_174_304_6,
+        0.030_891_881_0,
+        -0.017_088_125_6,
+        0.006_670_090_1,
+        -0.001_262_491_1,
+    ];
+    let ax = x.abs().min(1.0);
+    let p = A[7]
+        .mul_add(ax, A[6])
+        .mul_add(ax, A[5])
+        .mul_add(ax, A[4])
+        .mul_add(ax, A[3])
+        .mul_add(ax, A[2])
+        .mul_add(ax, A[1])
+        .mul_add(ax, A[0]);
+    let r = (1.0 - ax).sqrt() * p;
+    if x < 0.0 { std::f64::consts::PI - r } else { r }
+}
+
+/// [`structuring_element`] with [`acos_fast`]: the same value to within 1.3·10⁻⁸.
+pub fn structuring_element_fast(v: [f64; 3], d: [f64; 3]) -> f64 {
+    let n2 = v[0] * v[0] + v[1] * v[1] + v[2] * v[2];
+    if n2 == 0.0 {
+        return 1.0;
+    }
+    let c = ((v[0] * d[0] + v[1] * d[1] + v[2] * d[2]) / n2.sqrt()).clamp(-1.0, 1.0);
+    (1.0 - FRAC_2_PI * acos_fast(c)).max(0.0)
+}
+
 /// A monotone key of the angle between `w` and `d`: cos β · |cos β| (no square root).
 #[inline]
 fn key(w: [f64; 3], d: [f64; 3]) -> f64 {
@@ -534,7 +570,7 @@ impl FastLandscape {
             l[1][0] * v[0] + l[1][1] * v[1] + l[1][2] * v[2],
             l[2][0] * v[0] + l[2][1] * v[1] + l[2][2] * v[2],
         ];
-        structuring_element(w, self.direction.map(|x| x as f64))
+        structuring_element_fast(w, self.direction.map(|x| x as f64))
     }
 
     /// The degree at a global voxel (0 outside the box or where no origin was found).
@@ -566,7 +602,7 @@ impl FastLandscape {
             lin[1][0] * v[0] + lin[1][1] * v[1] + lin[1][2] * v[2],
             lin[2][0] * v[0] + lin[2][1] * v[1] + lin[2][2] * v[2],
         ];
-        structuring_element(w, self.direction.map(|x| x as f64))
+        structuring_element_fast(w, self.direction.map(|x| x as f64))
     }
 
     /// Bytes of state per propagation cell.

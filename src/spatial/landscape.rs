@@ -89,14 +89,12 @@ pub fn acos_fast(x: f64) -> f64 {
         -0.001_262_491_1,
     ];
     let ax = x.abs().min(1.0);
-    let p = A[7]
-        .mul_add(ax, A[6])
-        .mul_add(ax, A[5])
-        .mul_add(ax, A[4])
-        .mul_add(ax, A[3])
-        .mul_add(ax, A[2])
-        .mul_add(ax, A[1])
-        .mul_add(ax, A[0]);
+    // Horner's rule with plain products: `mul_add` calls a software fma on CPUs built for
+    // without the FMA feature.
+    let mut p = A[7];
+    for &a in A[..7].iter().rev() {
+        p = p * ax + a;
+    }
     let r = (1.0 - ax).sqrt() * p;
     if x < 0.0 { std::f64::consts::PI - r } else { r }
 }

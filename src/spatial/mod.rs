@@ -10,7 +10,6 @@ pub mod measure;
 pub mod nifti_io;
 pub mod phantom;
 pub mod picture;
-
 pub mod rcc8;
 pub mod region;
 pub mod table;

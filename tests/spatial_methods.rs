@@ -617,3 +617,20 @@ fn fast_arccos_stays_within_its_published_error() {
         .fold(0.0f64, f64::max);
     assert!(worst <= 2.5e-8, "{worst}");
 }
+
+proptest! {
+    #![proptest_config(ProptestConfig::with_cases(200))]
+    #[test]
+    fn surface_is_the_voxels_with_a_neighbour_outside(bits in prop::collection::vec(any::<bool>(), 60)) {
+        // The definition in Mask::surface: a voxel of the set with a 26-neighbour outside it
+        // (outside the box counts as outside), here on a box without an empty border.
+        let mut m = Mask::empty([2, -1, 0], [5, 4, 3]);
+        m.bits.copy_from_slice(&bits);
+        let naive: Vec<[i64; 3]> = m
+            .voxels()
+            .into_iter()
+            .filter(|p| Adjacency::TwentySix.offsets().iter().any(|o| !m.contains([p[0] + o[0], p[1] + o[1], p[2] + o[2]])))
+            .collect();
+        prop_assert_eq!(m.surface(), naive);
+    }
+}

@@ -222,15 +222,43 @@ impl Mask {
 
     /// Voxels of the set with at least one 26-neighbour outside it (the digital surface).
     pub fn surface(&self) -> Vec<[i64; 3]> {
-        self.voxels()
-            .into_iter()
-            .filter(|&p| {
-                Adjacency::TwentySix
-                    .offsets()
-                    .iter()
-                    .any(|o| !self.contains([p[0] + o[0], p[1] + o[1], p[2] + o[2]]))
-            })
-            .collect()
+        let [nx, ny, nz] = self.dims;
+        // Linear offsets of the 26 neighbours, valid away from the box's border.
+        let lin: Vec<isize> = Adjacency::TwentySix
+            .offsets()
+            .iter()
+            .map(|o| (o[0] + o[1] * nx as i64 + o[2] * (nx * ny) as i64) as isize)
+            .collect();
+        let mut out = Vec::new();
+        for k in 0..nz {
+            for j in 0..ny {
+                for i in 0..nx {
+                    let l = i + nx * (j + ny * k);
+                    if !self.bits[l] {
+                        continue;
+                    }
+                    let border =
+                        i == 0 || j == 0 || k == 0 || i + 1 == nx || j + 1 == ny || k + 1 == nz;
+                    let p = [
+                        self.lo[0] + i as i64,
+                        self.lo[1] + j as i64,
+                        self.lo[2] + k as i64,
+                    ];
+                    let outside = if border {
+                        Adjacency::TwentySix
+                            .offsets()
+                            .iter()
+                            .any(|o| !self.contains([p[0] + o[0], p[1] + o[1], p[2] + o[2]]))
+                    } else {
+                        lin.iter().any(|&d| !self.bits[(l as isize + d) as usize])
+                    };
+                    if outside {
+                        out.push(p);
+                    }
+                }
+            }
+        }
+        out
     }
 
     /// The extent: the set together with every voxel it encloses. Background voxels reached

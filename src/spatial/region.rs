@@ -210,28 +210,30 @@ pub fn diameter(points: &[[f64; 3]]) -> f64 {
     }
     let m = 1024;
     let golden = std::f64::consts::PI * (3.0 - 5.0f64.sqrt());
-    let mut cand: Vec<usize> = Vec::with_capacity(2 * m);
-    for t in 0..m {
-        let z = 1.0 - 2.0 * (t as f64 + 0.5) / m as f64;
-        let r = (1.0 - z * z).sqrt();
-        let phi = golden * t as f64;
-        let u = [r * phi.cos(), r * phi.sin(), z];
-        let (mut imin, mut imax) = (0, 0);
-        let (mut vmin, mut vmax) = (f64::INFINITY, f64::NEG_INFINITY);
-        for (i, p) in points.iter().enumerate() {
-            let v = p[0] * u[0] + p[1] * u[1] + p[2] * u[2];
-            if v < vmin {
-                vmin = v;
-                imin = i;
+    use rayon::prelude::*;
+    let mut cand: Vec<usize> = (0..m)
+        .into_par_iter()
+        .flat_map_iter(|t| {
+            let z = 1.0 - 2.0 * (t as f64 + 0.5) / m as f64;
+            let r = (1.0 - z * z).sqrt();
+            let phi = golden * t as f64;
+            let u = [r * phi.cos(), r * phi.sin(), z];
+            let (mut imin, mut imax) = (0, 0);
+            let (mut vmin, mut vmax) = (f64::INFINITY, f64::NEG_INFINITY);
+            for (i, p) in points.iter().enumerate() {
+                let v = p[0] * u[0] + p[1] * u[1] + p[2] * u[2];
+                if v < vmin {
+                    vmin = v;
+                    imin = i;
+                }
+                if v > vmax {
+                    vmax = v;
+                    imax = i;
+                }
             }
-            if v > vmax {
-                vmax = v;
-                imax = i;
-            }
-        }
-        cand.push(imin);
-        cand.push(imax);
-    }
+            [imin, imax]
+        })
+        .collect();
     cand.sort_unstable();
     cand.dedup();
     let pts: Vec<[f64; 3]> = cand.into_iter().map(|i| points[i]).collect();

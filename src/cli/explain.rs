@@ -146,7 +146,7 @@ pub fn build_problem(args: &ExplainArgs) -> Result<Problem, i32> {
                 .iter()
                 .flat_map(|o| o.individuals().into_iter().take(1))
                 .collect();
-            let a = annotated_abducibles(&mut kb, &findings, &individuals);
+            let a = crate::explain::abduce::annotated_abducibles(&mut kb, &findings, &individuals);
             if a.is_empty() {
                 return Err(bad(format!(
                     "no abducibles: give --abducibles FILE, or mark hypothesis classes in the KB with {}hypothesis \"true\"",
@@ -257,46 +257,8 @@ pub fn read_abducibles(
     Ok(out)
 }
 
-/// Abducibles from our annotations: hypothesis classes for the finding individuals, and
-/// hypothesis properties from a finding individual to any individual.
-pub fn annotated_abducibles(
-    kb: &mut KnowledgeBase,
-    findings: &[crate::kb::IndividualId],
-    individuals: &[crate::kb::IndividualId],
-) -> Vec<Assertion> {
-    let key = format!("{}hypothesis", crate::explain::WF);
-    let yes = |kb: &KnowledgeBase, iri: &str| {
-        kb.annotation(iri, &key)
-            .iter()
-            .any(|v| v.value == "true" || v.value == "1")
-    };
-    let mut out = Vec::new();
-    let mut findings = findings.to_vec();
-    findings.sort();
-    findings.dedup();
-    for c in 0..kb.vocab.classes.len() {
-        let cid = crate::kb::ClassId(c as u32);
-        if yes(kb, &kb.vocab.classes[c].clone()) {
-            let k = kb.concepts.atom(cid);
-            out.extend(findings.iter().map(|&a| Assertion::Class(k, a)));
-        }
-    }
-    for p in 0..kb.vocab.props.len() {
-        if yes(kb, &kb.vocab.props[p].clone()) {
-            let r = RoleId::named(crate::kb::PropId(p as u32));
-            for &a in &findings {
-                for &b in individuals {
-                    out.push(Assertion::Role(r, a, b));
-                }
-            }
-        }
-    }
-    out.sort();
-    out.dedup();
-    out
-}
-
-fn source_texts(kb: &KnowledgeBase, axioms: &[usize]) -> Vec<String> {
+/// The source texts of internal axioms, sorted and without repeats.
+pub fn source_texts(kb: &KnowledgeBase, axioms: &[usize]) -> Vec<String> {
     let mut v: Vec<String> = axioms
         .iter()
         .map(|&i| kb.sources[kb.axioms[i].source].text.clone())

@@ -10,7 +10,7 @@
 
 use super::assertion::Assertion;
 use super::justify::quickxplain;
-use crate::kb::{Concept, KnowledgeBase};
+use crate::kb::{Concept, KnowledgeBase, RoleId};
 use crate::reasoner::{Answer, Extra, Limit, Limits, Model, Reasoner, Refusal};
 use serde::Serialize;
 use std::collections::{BTreeSet, VecDeque};
@@ -558,3 +558,43 @@ fn diagnose(ctx: &mut Ctx, mask: &[bool], defaults: &[usize]) -> Result<Option<V
     }
     Ok(None)
 }
+
+/// Abducibles from our annotations: hypothesis classes for the finding individuals, and
+/// hypothesis properties from a finding individual to any individual.
+pub fn annotated_abducibles(
+    kb: &mut KnowledgeBase,
+    findings: &[crate::kb::IndividualId],
+    individuals: &[crate::kb::IndividualId],
+) -> Vec<Assertion> {
+    let key = format!("{}hypothesis", super::WF);
+    let yes = |kb: &KnowledgeBase, iri: &str| {
+        kb.annotation(iri, &key)
+            .iter()
+            .any(|v| v.value == "true" || v.value == "1")
+    };
+    let mut out = Vec::new();
+    let mut findings = findings.to_vec();
+    findings.sort();
+    findings.dedup();
+    for c in 0..kb.vocab.classes.len() {
+        let cid = crate::kb::ClassId(c as u32);
+        if yes(kb, &kb.vocab.classes[c].clone()) {
+            let k = kb.concepts.atom(cid);
+            out.extend(findings.iter().map(|&a| Assertion::Class(k, a)));
+        }
+    }
+    for p in 0..kb.vocab.props.len() {
+        if yes(kb, &kb.vocab.props[p].clone()) {
+            let r = RoleId::named(crate::kb::PropId(p as u32));
+            for &a in &findings {
+                for &b in individuals {
+                    out.push(Assertion::Role(r, a, b));
+                }
+            }
+        }
+    }
+    out.sort();
+    out.dedup();
+    out
+}
+

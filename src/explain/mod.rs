@@ -4,6 +4,7 @@
 
 pub mod abduce;
 pub mod assertion;
+pub mod case;
 pub mod justify;
 
 pub use abduce::{ExplainOptions, ExplainResult, Explanation, Problem, explain};

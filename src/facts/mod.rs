@@ -1,6 +1,8 @@
 //! The facts file schema (serde): what `measure` writes and what the reasoning side reads.
 //! Field order and sorting follow the command-line contract (section `measure`).
 
+pub mod abox;
+
 use serde::{Deserialize, Serialize};
 
 /// The value of the `format` field.

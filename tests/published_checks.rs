@@ -71,6 +71,8 @@ published! {
     has_value_in_abox: "has-value-abox", "hand-derived, OWL 2 Direct Semantics";
     has_value_in_tbox: "has-value-tbox", "hand-derived, OWL 2 Direct Semantics";
     one_of_in_abox: "one-of-abox", "hand-derived, OWL 2 Direct Semantics";
+    // A class satisfiable only in infinite models (needs blocking with inverses).
+    infinite_model_only: "infinite-model", "hand-derived, SHIQ semantics";
 }
 
 /// The real ontology: Brick 1.1 from the brickschema 0.8.0 PyPI package (BSD-3-Clause),
@@ -102,8 +104,8 @@ fn fixtures_parse_with_horned_owl() {
         .filter(|p| p.extension().is_some_and(|x| x == "ofn"))
         .collect();
     files.push(root.join("real/brick-1.1.ofn"));
-    // 17 published files (tests/fixtures/published/README.md) plus Brick.
-    assert_eq!(files.len(), 18);
+    // 18 published files (tests/fixtures/published/README.md) plus Brick.
+    assert_eq!(files.len(), 19);
     for f in files {
         let n = parse_with_horned_owl(&f).unwrap_or_else(|e| panic!("{e}"));
         assert!(n >= 2, "{}: only {n} components", f.display());

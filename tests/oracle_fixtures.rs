@@ -30,11 +30,13 @@ fn cases() -> Vec<Case> {
 fn classify_agrees_with_oracle_on_every_fixture() {
     let cases = cases();
     // The foundation issue asks for at least 300 recorded oracle answers.
-    assert!(
-        cases.len() >= 300,
-        "only {} oracle fixtures found",
-        cases.len()
-    );
+    if harness::only_filter().is_none() {
+        assert!(
+            cases.len() >= 300,
+            "only {} oracle fixtures found",
+            cases.len()
+        );
+    }
     let failures = run_all(&cases, 2);
     assert_no_failures("oracle fixtures", cases.len(), &failures);
 }

@@ -73,6 +73,8 @@ HAND = {
     "has-value-abox": (False, [], []),
     "has-value-tbox": (True, [], [("C", "D"), ("C", "E")] + eq("D", "E")),
     "one-of-abox": (False, [], []),
+    # W ≡ ∃f.⊤ ≡ owl:Thing: above every satisfiable named class.
+    "infinite-model": (True, ["Y"], [("X", "W"), ("Z", "W")]),
 }
 
 

@@ -4,8 +4,10 @@
 //! The library is layered as DEVELOPERS.md describes; `main.rs` is a thin shell over it.
 
 pub mod cli;
+pub mod demo;
 pub mod explain;
 pub mod facts;
 pub mod kb;
 pub mod reasoner;
+pub mod render;
 pub mod spatial;

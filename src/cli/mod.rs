@@ -2,6 +2,7 @@
 
 pub mod classify;
 pub mod common;
+pub mod demo;
 pub mod explain;
 pub mod measure;
 pub mod why;
@@ -46,6 +47,8 @@ enum Command {
     Explain(explain::ExplainArgs),
     /// Justify an entailment, an unsatisfiable class or the inconsistency; list repairs.
     Why(why::WhyArgs),
+    /// Run the whole job on the built-in synthetic demo.
+    Demo(demo::DemoArgs),
     /// Measure spatial relations between labelled regions of NIfTI label maps.
     Measure(measure::MeasureArgs),
 }
@@ -74,5 +77,6 @@ where
         Command::Measure(a) => measure::run(a),
         Command::Explain(a) => explain::run(a),
         Command::Why(a) => why::run(a),
+        Command::Demo(a) => demo::run(a),
     }
 }

@@ -384,8 +384,12 @@ pub fn measure(
                 .copied()
                 .filter(|&a| regions[a].mask.intersection_count(reference) < regions[a].voxels)
                 .collect();
+            if targets.is_empty() {
+                // Every subject lies inside the object's extent: no landscape is needed.
+                return Vec::new();
+            }
             let boxes: Vec<&Mask> = std::iter::once(reference)
-                .chain(subjects.iter().map(|&a| &regions[a].mask))
+                .chain(targets.iter().map(|&a| &regions[a].mask))
                 .collect();
             let (lo, dims) = union_box(&boxes);
             let ref_world: Vec<[f64; 3]> = if dir_cfg.landscape == LandscapeMode::Exact {

@@ -16,6 +16,9 @@ use crate::facts::{self, Facts, Individual, Measurement, Provenance, Relation, S
 use rayon::prelude::*;
 use std::collections::BTreeMap;
 
+/// Largest number of angle evaluations a plan may ask of the exact landscape.
+pub const EXACT_WORK_LIMIT: f64 = 2.0e11;
+
 /// One side of a pair selection.
 #[derive(Clone, Debug, PartialEq, Eq)]
 pub enum Selector {
@@ -288,6 +291,19 @@ pub fn measure(
             {
                 plan.push((a, b));
             }
+        }
+    }
+    if opts.config.directional.landscape == LandscapeMode::Exact {
+        // The exact landscape costs |subject| × |object extent| per direction: refuse a plan
+        // that would run for hours rather than hang.
+        let work: f64 = plan
+            .iter()
+            .map(|&(a, b)| 6.0 * regions[a].voxels as f64 * regions[b].extent_voxels as f64)
+            .sum();
+        if work > EXACT_WORK_LIMIT {
+            return Err(SpatialError::Limit(format!(
+                "the exact landscapes of this plan need about {work:.1e} angle evaluations (limit {EXACT_WORK_LIMIT:.0e}); use --landscape fast or narrow --pairs"
+            )));
         }
     }
     let spacing = affine.spacing();

@@ -3,7 +3,7 @@
 use super::SpatialError;
 use super::affine::round_to;
 use super::config::MeasureConfig;
-use super::edt::edt;
+use super::edt::edt_squared;
 use super::landscape::{
     Direction, FastLandscape, LandscapeMode, cell_count, cell_index, exact_degree,
 };
@@ -329,7 +329,8 @@ pub fn measure(
                 .collect();
             let (lo, dims) = union_box(&boxes);
             let feat = paint(&regions[x].mask, lo, dims);
-            let d = edt(dims, spacing, &feat);
+            // Squared distances; square roots only for the two values kept per partner.
+            let d = edt_squared(dims, spacing, &feat);
             partners[x]
                 .iter()
                 .map(|&y| {
@@ -339,7 +340,7 @@ pub fn measure(
                         mn = mn.min(v);
                         mx = mx.max(v);
                     }
-                    ((y, x), (mn, mx))
+                    ((y, x), (mn.sqrt(), mx.sqrt()))
                 })
                 .collect::<Vec<_>>()
         })
@@ -363,7 +364,7 @@ pub fn measure(
             .flat_map_iter(|&b| {
                 let ext = &regions[b].extent;
                 let feat: Vec<bool> = ext.bits.iter().map(|&x| !x).collect();
-                let d = edt(ext.dims, spacing, &feat);
+                let d = edt_squared(ext.dims, spacing, &feat);
                 contained
                     .iter()
                     .filter(|&&(_, bb)| bb == b)
@@ -373,7 +374,7 @@ pub fn measure(
                             .iter()
                             .map(|p| d[lin(p, ext.lo, ext.dims)])
                             .fold(f64::INFINITY, f64::min);
-                        ((a, b), mn)
+                        ((a, b), mn.sqrt())
                     })
                     .collect::<Vec<_>>()
             })

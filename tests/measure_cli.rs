@@ -495,3 +495,33 @@ fn config_file_and_options_change_the_parameters() {
     ]);
     assert_eq!(code, 2);
 }
+
+#[test]
+fn an_exact_plan_beyond_the_work_bound_exits_3() {
+    // Contract: exit code 3 when a resource limit is reached. Two 300 000-voxel blocks:
+    // 2 ordered pairs × 6 directions × 3·10⁵ × 3·10⁵ ≈ 1.1·10¹² > 2·10¹¹ angle evaluations.
+    let dir = tmpdir("limit");
+    let mut p = Phantom::new([100, 100, 60], Affine::identity());
+    p.cuboid(1, [0.0, 0.0, 0.0], [49.0, 99.0, 59.0]).cuboid(
+        2,
+        [50.0, 0.0, 0.0],
+        [99.0, 99.0, 59.0],
+    );
+    let map = dir.join("big.nii.gz");
+    p.write_nifti(&map).unwrap();
+    let table = dir.join("t.tsv");
+    std::fs::write(
+        &table,
+        format!("value\tindividual\tclass\n1\ta\t{LIVER}\n2\tb\t{SPLEEN}\n"),
+    )
+    .unwrap();
+    let (code, _, err) = run(&[
+        map.to_str().unwrap(),
+        "--labels",
+        table.to_str().unwrap(),
+        "--landscape",
+        "exact",
+    ]);
+    assert_eq!(code, 3, "{err}");
+    assert!(err.contains("--landscape fast"), "{err}");
+}

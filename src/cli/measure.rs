@@ -48,7 +48,10 @@ pub fn run(args: MeasureArgs) -> i32 {
         Ok(()) => super::EXIT_OK,
         Err(e) => {
             eprintln!("wherefore measure: error: {e}");
-            super::EXIT_BAD_INPUT
+            match e {
+                SpatialError::Limit(_) => super::EXIT_LIMIT,
+                _ => super::EXIT_BAD_INPUT,
+            }
         }
     }
 }

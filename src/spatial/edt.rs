@@ -20,19 +20,29 @@ pub fn edt_squared(dims: [usize; 3], spacing: [f64; 3], feature: &[bool]) -> Vec
     if d.is_empty() {
         return d;
     }
-    // Axis i: lines are contiguous rows.
+    // Axis i: lines are contiguous rows. With a binary input the 1D transform is the
+    // squared distance to the nearest feature in the row: two scans, no envelope needed.
+    let s0 = spacing[0];
     d.par_chunks_mut(nx)
         .zip(feature.par_chunks(nx))
-        .for_each_init(
-            || Scratch::new(nx),
-            |s, (row, feat)| {
-                for (x, &f) in s.f.iter_mut().zip(feat) {
-                    *x = if f { 0.0 } else { f64::INFINITY };
+        .for_each(|(row, feat)| {
+            let mut last: Option<usize> = None;
+            for i in 0..nx {
+                if feat[i] {
+                    last = Some(i);
                 }
-                lower_envelope(&s.f[..nx], spacing[0], &mut s.out[..nx], &mut s.v, &mut s.z);
-                row.copy_from_slice(&s.out[..nx]);
-            },
-        );
+                row[i] = last.map_or(f64::INFINITY, |l| ((i - l) as f64 * s0).powi(2));
+            }
+            let mut next: Option<usize> = None;
+            for i in (0..nx).rev() {
+                if feat[i] {
+                    next = Some(i);
+                }
+                if let Some(n) = next {
+                    row[i] = row[i].min(((n - i) as f64 * s0).powi(2));
+                }
+            }
+        });
     // Axis j: lines inside each k-slab, gathered row by row into a transposed buffer so
     // that memory is read and written in order.
     if ny > 1 {

@@ -3,7 +3,7 @@
 use super::SpatialError;
 use super::affine::round_to;
 use super::config::MeasureConfig;
-use super::edt::edt;
+use super::edt::edt_squared;
 use super::landscape::{
     Direction, FastLandscape, LandscapeMode, cell_count, cell_index, exact_degree,
 };
@@ -15,6 +15,9 @@ use super::table::{Role, TableRow};
 use crate::facts::{self, Facts, Individual, Measurement, Provenance, Relation, Source};
 use rayon::prelude::*;
 use std::collections::BTreeMap;
+
+/// Largest number of angle evaluations a plan may ask of the exact landscape.
+pub const EXACT_WORK_LIMIT: f64 = 2.0e11;
 
 /// One side of a pair selection.
 #[derive(Clone, Debug, PartialEq, Eq)]
@@ -290,6 +293,19 @@ pub fn measure(
             }
         }
     }
+    if opts.config.directional.landscape == LandscapeMode::Exact {
+        // The exact landscape costs |subject| × |object extent| per direction: refuse a plan
+        // that would run for hours rather than hang.
+        let work: f64 = plan
+            .iter()
+            .map(|&(a, b)| 6.0 * regions[a].voxels as f64 * regions[b].extent_voxels as f64)
+            .sum();
+        if work > EXACT_WORK_LIMIT {
+            return Err(SpatialError::Limit(format!(
+                "the exact landscapes of this plan need about {work:.1e} angle evaluations (limit {EXACT_WORK_LIMIT:.0e}); use --landscape fast or narrow --pairs"
+            )));
+        }
+    }
     let spacing = affine.spacing();
 
     // Distances: for each region X, the EDT of X over the box holding X and its partners
@@ -313,7 +329,8 @@ pub fn measure(
                 .collect();
             let (lo, dims) = union_box(&boxes);
             let feat = paint(&regions[x].mask, lo, dims);
-            let d = edt(dims, spacing, &feat);
+            // Squared distances; square roots only for the two values kept per partner.
+            let d = edt_squared(dims, spacing, &feat);
             partners[x]
                 .iter()
                 .map(|&y| {
@@ -323,7 +340,7 @@ pub fn measure(
                         mn = mn.min(v);
                         mx = mx.max(v);
                     }
-                    ((y, x), (mn, mx))
+                    ((y, x), (mn.sqrt(), mx.sqrt()))
                 })
                 .collect::<Vec<_>>()
         })
@@ -347,7 +364,7 @@ pub fn measure(
             .flat_map_iter(|&b| {
                 let ext = &regions[b].extent;
                 let feat: Vec<bool> = ext.bits.iter().map(|&x| !x).collect();
-                let d = edt(ext.dims, spacing, &feat);
+                let d = edt_squared(ext.dims, spacing, &feat);
                 contained
                     .iter()
                     .filter(|&&(_, bb)| bb == b)
@@ -357,7 +374,7 @@ pub fn measure(
                             .iter()
                             .map(|p| d[lin(p, ext.lo, ext.dims)])
                             .fold(f64::INFINITY, f64::min);
-                        ((a, b), mn)
+                        ((a, b), mn.sqrt())
                     })
                     .collect::<Vec<_>>()
             })
@@ -384,8 +401,12 @@ pub fn measure(
                 .copied()
                 .filter(|&a| regions[a].mask.intersection_count(reference) < regions[a].voxels)
                 .collect();
+            if targets.is_empty() {
+                // Every subject lies inside the object's extent: no landscape is needed.
+                return Vec::new();
+            }
             let boxes: Vec<&Mask> = std::iter::once(reference)
-                .chain(subjects.iter().map(|&a| &regions[a].mask))
+                .chain(targets.iter().map(|&a| &regions[a].mask))
                 .collect();
             let (lo, dims) = union_box(&boxes);
             let ref_world: Vec<[f64; 3]> = if dir_cfg.landscape == LandscapeMode::Exact {

@@ -48,6 +48,9 @@ pub enum SpatialError {
     /// Label maps that do not share one grid, or a bad option.
     #[error("{0}")]
     Usage(String),
+    /// A work bound was reached (the contract's exit code 3).
+    #[error("resource limit: {0}")]
+    Limit(String),
     /// Writing an output failed.
     #[error("{file}: cannot write: {message}")]
     Write {

@@ -42,7 +42,12 @@ pub struct DemoCase {
 
 /// The six cases.
 pub fn cases() -> Vec<DemoCase> {
-    let l = |label, id, centre, radii| Lesion { label, id, centre, radii };
+    let l = |label, id, centre, radii| Lesion {
+        label,
+        id,
+        centre,
+        radii,
+    };
     vec![
         DemoCase {
             id: "01-deep-liver-lesion",
@@ -88,7 +93,10 @@ pub fn cases() -> Vec<DemoCase> {
 
 /// Grid: 1.5 × 1.5 × 2.5 mm, x stored toward the patient's left (a common storage order).
 fn grid() -> ([usize; 3], Affine) {
-    ([214, 174, 80], Affine::diagonal([-1.5, 1.5, 2.5], [160.0, -130.0, -100.0]))
+    (
+        [214, 174, 80],
+        Affine::diagonal([-1.5, 1.5, 2.5], [160.0, -130.0, -100.0]),
+    )
 }
 
 /// The organ map of a case.
@@ -97,7 +105,11 @@ fn organs(displaced_kidney: bool) -> Phantom {
     let mut p = Phantom::new(shape, affine);
     p.ellipsoid(1, [70.0, 10.0, 50.0], [80.0, 70.0, 60.0]); // liver
     p.ellipsoid(2, [-90.0, -20.0, 40.0], [35.0, 22.0, 55.0]); // spleen
-    let rk = if displaced_kidney { [62.0, -52.0, -68.0] } else { [60.0, -50.0, -40.0] };
+    let rk = if displaced_kidney {
+        [62.0, -52.0, -68.0]
+    } else {
+        [60.0, -50.0, -40.0]
+    };
     p.ellipsoid(3, rk, [30.0, 25.0, 28.0]); // right kidney
     p.ellipsoid(4, [-60.0, -50.0, -35.0], [30.0, 25.0, 28.0]); // left kidney
     p.tube(5, [40.0, 25.0, 5.0], [-80.0, -5.0, 20.0], 12.0); // pancreas
@@ -122,7 +134,10 @@ fn table(lesions: &[Lesion]) -> String {
         t.push_str(&format!("organs.nii.gz\t{v}\t{id}\t{ABD}{class}\n"));
     }
     for l in lesions {
-        t.push_str(&format!("lesions.nii.gz\t{}\t{}\t{ABD}FocalLesion\n", l.label, l.id));
+        t.push_str(&format!(
+            "lesions.nii.gz\t{}\t{}\t{ABD}FocalLesion\n",
+            l.label, l.id
+        ));
     }
     t
 }
@@ -145,7 +160,8 @@ pub struct CaseOutcome {
 
 fn write(path: &Path, bytes: &[u8]) -> Result<(), String> {
     let dir = path.parent().unwrap_or(Path::new("."));
-    std::fs::create_dir_all(dir).map_err(|e| format!("{}: cannot create folder: {e}", dir.display()))?;
+    std::fs::create_dir_all(dir)
+        .map_err(|e| format!("{}: cannot create folder: {e}", dir.display()))?;
     crate::cli::common::write_atomic(path, bytes, &[])
 }
 
@@ -173,11 +189,16 @@ pub fn run(dir: &Path) -> Result<Vec<CaseOutcome>, String> {
         for l in &case.lesions {
             les.ellipsoid(l.label, l.centre, l.radii);
         }
-        org.write_nifti(&cdir.join("organs.nii.gz")).map_err(|e| format!("{}: {e}", cdir.display()))?;
-        les.write_nifti(&cdir.join("lesions.nii.gz")).map_err(|e| format!("{}: {e}", cdir.display()))?;
+        org.write_nifti(&cdir.join("organs.nii.gz"))
+            .map_err(|e| format!("{}: {e}", cdir.display()))?;
+        les.write_nifti(&cdir.join("lesions.nii.gz"))
+            .map_err(|e| format!("{}: {e}", cdir.display()))?;
         let tsv = table(&case.lesions);
         write(&cdir.join("labels.tsv"), tsv.as_bytes())?;
-        let maps = vec![org.to_label_map("organs.nii.gz"), les.to_label_map("lesions.nii.gz")];
+        let maps = vec![
+            org.to_label_map("organs.nii.gz"),
+            les.to_label_map("lesions.nii.gz"),
+        ];
         let rows = parse_table(&tsv, "labels.tsv").map_err(|e| e.to_string())?;
         let opts = MeasureOptions::default();
         let measured = measure(&maps, &rows, "labels.tsv", &opts).map_err(|e| e.to_string())?;
@@ -185,14 +206,25 @@ pub fn run(dir: &Path) -> Result<Vec<CaseOutcome>, String> {
         write(&cdir.join("facts.json"), facts.to_json().as_bytes())?;
         let pic_dir = cdir.join("pictures");
         let mut images = Vec::new();
-        if crate::spatial::picture::write_pictures(&pic_dir, &maps[0], &measured.regions, &facts, &opts.config).is_ok() {
+        if crate::spatial::picture::write_pictures(
+            &pic_dir,
+            &maps[0],
+            &measured.regions,
+            &facts,
+            &opts.config,
+        )
+        .is_ok()
+        {
             let mut names: Vec<PathBuf> = std::fs::read_dir(&pic_dir)
                 .map(|rd| rd.filter_map(|e| e.ok().map(|e| e.path())).collect())
                 .unwrap_or_default();
             names.sort();
             for p in names {
                 if let Ok(bytes) = std::fs::read(&p) {
-                    let cap = p.file_stem().map(|s| s.to_string_lossy().replace('_', " ")).unwrap_or_default();
+                    let cap = p
+                        .file_stem()
+                        .map(|s| s.to_string_lossy().replace('_', " "))
+                        .unwrap_or_default();
                     images.push((cap, bytes));
                 }
             }
@@ -211,8 +243,14 @@ pub fn run(dir: &Path) -> Result<Vec<CaseOutcome>, String> {
         let report = render::build(&input);
         let json = serde_json::to_string_pretty(&report).map_err(|e| e.to_string())? + "\n";
         write(&cdir.join("report.json"), json.as_bytes())?;
-        write(&cdir.join("report.md"), render::markdown(&report).as_bytes())?;
-        write(&cdir.join("report.html"), render::html::page(&report, &images).as_bytes())?;
+        write(
+            &cdir.join("report.md"),
+            render::markdown(&report).as_bytes(),
+        )?;
+        write(
+            &cdir.join("report.html"),
+            render::html::page(&report, &images).as_bytes(),
+        )?;
         outcomes.push(CaseOutcome {
             id: case.id.to_string(),
             dir: cdir,

@@ -15,7 +15,9 @@ pub struct DemoArgs {
 /// Runs the demo and returns the exit code.
 pub fn run(args: DemoArgs) -> i32 {
     let start = Instant::now();
-    println!("wherefore demo: synthetic upper-abdominal CT, six cases (illustrative, not clinical guidance)");
+    println!(
+        "wherefore demo: synthetic upper-abdominal CT, six cases (illustrative, not clinical guidance)"
+    );
     match crate::demo::run(&args.out) {
         Ok(outcomes) => {
             for o in &outcomes {
@@ -28,7 +30,10 @@ pub fn run(args: DemoArgs) -> i32 {
                     println!("  unexplained findings: {}", o.unexplained);
                 }
                 if o.abnormalities > 0 {
-                    println!("  abnormalities (suspended normal-anatomy defaults): {}", o.abnormalities);
+                    println!(
+                        "  abnormalities (suspended normal-anatomy defaults): {}",
+                        o.abnormalities
+                    );
                 }
                 println!("  open: {}", o.dir.join("report.html").display());
             }

@@ -597,4 +597,3 @@ pub fn annotated_abducibles(
     out.dedup();
     out
 }
-

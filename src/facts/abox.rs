@@ -34,7 +34,9 @@ fn annotated(kb: &KnowledgeBase, key: &str) -> BTreeMap<String, Vec<String>> {
     for (subject, props) in &kb.annotations {
         if let Some(vs) = props.get(key) {
             for v in vs {
-                out.entry(v.value.clone()).or_default().push(subject.clone());
+                out.entry(v.value.clone())
+                    .or_default()
+                    .push(subject.clone());
             }
         }
     }
@@ -43,28 +45,44 @@ fn annotated(kb: &KnowledgeBase, key: &str) -> BTreeMap<String, Vec<String>> {
 
 /// Whether an entity carries one of our boolean marks.
 pub fn marked(kb: &KnowledgeBase, iri: &str, mark: &str) -> bool {
-    kb.annotation(iri, &format!("{WF}{mark}")).iter().any(|v| v.value == "true" || v.value == "1")
+    kb.annotation(iri, &format!("{WF}{mark}"))
+        .iter()
+        .any(|v| v.value == "true" || v.value == "1")
 }
 
 /// Adds the case's assertions to the KB. Individuals become `CASE_NS` + id; classes are
 /// asserted crisply; relations become property assertions carrying their degree; per-region
 /// quantities and single pairwise quantities become data property assertions.
 pub fn add_facts(kb: &mut KnowledgeBase, facts: &Facts, file: &str) -> CaseAbox {
-    let mut out = CaseAbox { first_axiom: kb.axioms.len(), ..Default::default() };
+    let mut out = CaseAbox {
+        first_axiom: kb.axioms.len(),
+        ..Default::default()
+    };
     let relations = annotated(kb, &format!("{WF}factsRelation"));
     let quantities = annotated(kb, &format!("{WF}factsQuantity"));
-    let mut push = |kb: &mut KnowledgeBase, out: &mut CaseAbox, axiom: Axiom, text: String, degree: f64| {
-        let src = kb.add_source(text, file.to_string(), vec![(format!("{WF}degree"), format!("{degree}"))]);
-        kb.push(axiom, src);
-        out.degrees.push(degree);
-    };
+    let mut push =
+        |kb: &mut KnowledgeBase, out: &mut CaseAbox, axiom: Axiom, text: String, degree: f64| {
+            let src = kb.add_source(
+                text,
+                file.to_string(),
+                vec![(format!("{WF}degree"), format!("{degree}"))],
+            );
+            kb.push(axiom, src);
+            out.degrees.push(degree);
+        };
     for ind in &facts.individuals {
         let iri = format!("{CASE_NS}{}", ind.id);
         let a = kb.vocab.individual(&iri);
         out.individuals.insert(ind.id.clone(), a);
         let c = kb.vocab.class(&ind.class);
         let k = kb.concepts.atom(c);
-        push(kb, &mut out, Axiom::ClassAssertion(k, a), format!("ClassAssertion(<{}> <{iri}>)", ind.class), 1.0);
+        push(
+            kb,
+            &mut out,
+            Axiom::ClassAssertion(k, a),
+            format!("ClassAssertion(<{}> <{iri}>)", ind.class),
+            1.0,
+        );
         if marked(kb, &ind.class, "finding") || ind.role == "finding" {
             out.findings.push(a);
         }
@@ -79,8 +97,14 @@ pub fn add_facts(kb: &mut KnowledgeBase, facts: &Facts, file: &str) -> CaseAbox 
         }
     }
     for rel in &facts.relations {
-        let (Some(&a), Some(&b)) = (out.individuals.get(&rel.subject), out.individuals.get(&rel.object)) else {
-            out.warnings.push(format!("{file}: relation {} names an unknown individual; skipped", rel.relation));
+        let (Some(&a), Some(&b)) = (
+            out.individuals.get(&rel.subject),
+            out.individuals.get(&rel.object),
+        ) else {
+            out.warnings.push(format!(
+                "{file}: relation {} names an unknown individual; skipped",
+                rel.relation
+            ));
             continue;
         };
         let Some(props) = relations.get(&rel.relation) else {
@@ -93,23 +117,38 @@ pub fn add_facts(kb: &mut KnowledgeBase, facts: &Facts, file: &str) -> CaseAbox 
             continue;
         }
         for piri in props {
-            let Some(p) = kb.vocab.find_prop(piri) else { continue };
+            let Some(p) = kb.vocab.find_prop(piri) else {
+                continue;
+            };
             let r = RoleId::named(p);
             let text = format!(
                 "ObjectPropertyAssertion(<{piri}> <{CASE_NS}{}> <{CASE_NS}{}>)",
                 rel.subject, rel.object
             );
-            push(kb, &mut out, Axiom::RoleAssertion(r, a, b), text, rel.degree.min(1.0));
+            push(
+                kb,
+                &mut out,
+                Axiom::RoleAssertion(r, a, b),
+                text,
+                rel.degree.min(1.0),
+            );
         }
     }
     // Pairwise quantities: asserted on the subject when it has exactly one value.
     let mut by_subject: BTreeMap<(&str, &str), Vec<f64>> = BTreeMap::new();
     for m in &facts.measurements {
-        by_subject.entry((m.subject.as_str(), m.quantity.as_str())).or_default().push(m.value);
+        by_subject
+            .entry((m.subject.as_str(), m.quantity.as_str()))
+            .or_default()
+            .push(m.value);
     }
     for ((subject, q), values) in by_subject {
-        let Some(dps) = quantities.get(q) else { continue };
-        let Some(&a) = out.individuals.get(subject) else { continue };
+        let Some(dps) = quantities.get(q) else {
+            continue;
+        };
+        let Some(&a) = out.individuals.get(subject) else {
+            continue;
+        };
         let iri = format!("{CASE_NS}{subject}");
         for dp in dps {
             let functional = kb.axioms.iter().any(|x| {
@@ -149,6 +188,8 @@ fn data_assertion(
     let nri = kb.ranges.intern(nr);
     let c = kb.concepts.data_some(p, ri, nri);
     debug_assert!(matches!(kb.concepts.get(c), Concept::DataSome(..)));
-    let text = format!("DataPropertyAssertion(<{dp}> <{iri}> \"{v}\"^^<http://www.w3.org/2001/XMLSchema#decimal>)");
+    let text = format!(
+        "DataPropertyAssertion(<{dp}> <{iri}> \"{v}\"^^<http://www.w3.org/2001/XMLSchema#decimal>)"
+    );
     push(kb, out, Axiom::ClassAssertion(c, a), text, 1.0);
 }

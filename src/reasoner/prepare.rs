@@ -169,27 +169,30 @@ pub fn prepare(
         };
         let is_tbox = !matches!(a, Axiom::ClassAssertion(..));
         for c in roots {
-            let mut stack = vec![c];
+            // (concept, reached from the axiom's top through ⊓/⊔ only)
+            let mut stack = vec![(c, true)];
             let mut seen = std::collections::HashSet::new();
-            while let Some(x) = stack.pop() {
-                if !seen.insert(x) {
+            while let Some((x, top)) = stack.pop() {
+                if !seen.insert((x, top)) {
                     continue;
                 }
                 match concepts.get(x).clone() {
-                    Concept::And(xs) | Concept::Or(xs) => stack.extend(xs),
+                    Concept::And(xs) | Concept::Or(xs) => {
+                        stack.extend(xs.into_iter().map(|y| (y, top)))
+                    }
                     Concept::Some(_, f) => {
                         if let Concept::Nominal(_) = concepts.get(f) {
                             if is_tbox {
                                 tbox_nominals = true;
                             }
                         } else {
-                            stack.push(f);
+                            stack.push((f, false));
                         }
                     }
                     Concept::All(_, f) => {
                         if let Concept::NotNominal(_) = concepts.get(f) {
                         } else {
-                            stack.push(f);
+                            stack.push((f, false));
                         }
                     }
                     Concept::AtLeast(_, r, f) | Concept::AtMost(_, r, f) => {
@@ -200,15 +203,18 @@ pub fn prepare(
                                 reason: "number restriction on a non-simple property (one that is transitive or has a transitive sub-property)".into(),
                             });
                         }
-                        stack.push(f);
+                        stack.push((f, false));
                     }
+                    // An enumeration asserted of a named individual is a choice among
+                    // equalities between named individuals, which the tableau handles by
+                    // merging root nodes.
+                    Concept::Nominal(_) if !is_tbox && top => {}
                     Concept::Nominal(_) => {
                         return Err(Refusal {
                             axiom: text(),
                             reason: "an enumeration (ObjectOneOf) used as a class in the TBox needs a reasoner with full nominal support; only ObjectHasValue fillers and ABox uses are handled".into(),
                         });
                     }
-                    Concept::NotNominal(_) => {}
                     _ => {}
                 }
             }

@@ -460,6 +460,19 @@ impl<'a> Tableau<'a> {
                     }
                 }
             }
+            Concept::Nominal(b) => {
+                // {b} asserted of a named individual: it is b (merge the root nodes).
+                let t = self.ind(b);
+                if t != x && !self.g.nodes[x].names.contains(&b) {
+                    if let Some(d) = self.distinct(x, t) {
+                        let dd = self.deps.union(d, dep);
+                        self.set_clash(dd);
+                    } else {
+                        self.stats.merges += 1;
+                        self.merge(x, t, dep);
+                    }
+                }
+            }
             Concept::DataSome(dp, _) => {
                 for q in &p.data_supers[dp.index()] {
                     for &t in &p.data_triggers[q.index()] {
@@ -698,43 +711,67 @@ impl<'a> Tableau<'a> {
                 return true;
             }
         }
-        // ⊔ rule with boolean constraint propagation.
+        // ⊔ rule with boolean constraint propagation. Satisfied disjunctions are dropped
+        // from the node's pending list (labels only grow until a backtrack restores the
+        // snapshot, so a satisfied disjunction stays satisfied).
         for x in 0..self.g.nodes.len() {
             if !self.g.nodes[x].active || self.is_indirectly_blocked(x, indirectly_blocked) {
                 continue;
             }
-            for c in self.g.nodes[x].ors.clone() {
-                let Concept::Or(xs) = self.concepts.get(c).clone() else {
+            let mut satisfied: Vec<ConceptId> = Vec::new();
+            let mut pick: Option<ConceptId> = None;
+            for &c in &self.g.nodes[x].ors {
+                let Concept::Or(xs) = self.concepts.get(c) else {
                     continue;
                 };
                 if xs.iter().any(|&d| self.has(x, d).is_some()) {
-                    continue;
+                    satisfied.push(c);
+                } else {
+                    pick = Some(c);
+                    break;
                 }
-                let mut base = self.g.nodes[x].deps[&c];
-                let mut open = Vec::new();
-                for &d in &xs {
-                    let nd = self.concepts.not(d);
-                    match self.has(x, nd) {
-                        Some(dd) => base = self.deps.union(base, dd),
-                        None => open.push(d),
-                    }
-                }
-                match open.len() {
-                    0 => self.set_clash(base),
-                    1 => self.add(x, open[0], base),
-                    _ => {
-                        self.stats.branches += 1;
-                        self.branch(
-                            Choice::Add {
-                                node: x,
-                                options: open,
-                            },
-                            base,
-                        );
-                    }
-                }
-                return true;
             }
+            if !satisfied.is_empty() {
+                Rc::make_mut(&mut self.g.nodes[x])
+                    .ors
+                    .retain(|c| !satisfied.contains(c));
+            }
+            let Some(c) = pick else { continue };
+            let Concept::Or(xs) = self.concepts.get(c).clone() else {
+                continue;
+            };
+            let mut base = self.g.nodes[x].deps[&c];
+            let mut open = Vec::new();
+            for &d in &xs {
+                let nd = self.concepts.not(d);
+                match self.has(x, nd) {
+                    Some(dd) => base = self.deps.union(base, dd),
+                    None => open.push(d),
+                }
+            }
+            // Cheap disjuncts first: negated atoms, atoms, then the rest; generating ones last.
+            let rank = |t: &Tableau, d: ConceptId| match t.concepts.get(d) {
+                Concept::NotAtom(_) => 0,
+                Concept::Atom(_) => 1,
+                Concept::Some(..) | Concept::AtLeast(..) => 3,
+                _ => 2,
+            };
+            open.sort_by_key(|&d| (rank(self, d), d));
+            match open.len() {
+                0 => self.set_clash(base),
+                1 => self.add(x, open[0], base),
+                _ => {
+                    self.stats.branches += 1;
+                    self.branch(
+                        Choice::Add {
+                            node: x,
+                            options: open,
+                        },
+                        base,
+                    );
+                }
+            }
+            return true;
         }
         false
     }

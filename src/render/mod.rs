@@ -108,8 +108,17 @@ pub fn build(input: &ReportInput) -> Report {
     let mut w = Words::new(kb);
     let mut explanations = Vec::new();
     for (i, e) in input.result.explanations.iter().enumerate() {
-        let summary = e.assertions.iter().map(|a| w.assertion(a, false)).collect::<Vec<_>>().join("; ");
-        let mut just: Vec<String> = e.justification.iter().map(|&j| source_text(kb, j)).collect();
+        let summary = e
+            .assertions
+            .iter()
+            .map(|a| w.assertion(a, false))
+            .collect::<Vec<_>>()
+            .join("; ");
+        let mut just: Vec<String> = e
+            .justification
+            .iter()
+            .map(|&j| source_text(kb, j))
+            .collect();
         just.sort();
         just.dedup();
         explanations.push(ReportExplanation {
@@ -122,7 +131,12 @@ pub fn build(input: &ReportInput) -> Report {
             justification: just,
         });
     }
-    let mut unexplained: Vec<String> = input.result.unexplained.iter().map(|a| a.text(kb, &kb.concepts)).collect();
+    let mut unexplained: Vec<String> = input
+        .result
+        .unexplained
+        .iter()
+        .map(|a| a.text(kb, &kb.concepts))
+        .collect();
     unexplained.sort();
     let abnormalities: Vec<Abnormality> = input
         .result
@@ -146,7 +160,11 @@ pub fn build(input: &ReportInput) -> Report {
                 .collect();
             contradicted_by.sort();
             contradicted_by.dedup();
-            Abnormality { axiom: src.text.clone(), statement, contradicted_by }
+            Abnormality {
+                axiom: src.text.clone(),
+                statement,
+                contradicted_by,
+            }
         })
         .collect();
     let clinician = clinician_text(input, &mut w, &explanations, &abnormalities);
@@ -157,7 +175,11 @@ pub fn build(input: &ReportInput) -> Report {
     Report {
         case: input.case.to_string(),
         caution: CAUTION.to_string(),
-        registers: Registers { clinician, patient, formal },
+        registers: Registers {
+            clinician,
+            patient,
+            formal,
+        },
         explanations,
         unexplained,
         abnormalities,
@@ -167,17 +189,37 @@ pub fn build(input: &ReportInput) -> Report {
     }
 }
 
-fn fmt_num(v: f64) -> String {
-    if v >= 100.0 { format!("{v:.0}") } else if v >= 10.0 { format!("{v:.1}") } else { format!("{v:.2}") }
+fn is_directional(rel: &str) -> bool {
+    matches!(
+        rel,
+        "left_of" | "right_of" | "anterior_of" | "posterior_of" | "superior_of" | "inferior_of"
+    )
 }
 
-fn clinician_text(input: &ReportInput, w: &mut Words, expl: &[ReportExplanation], abn: &[Abnormality]) -> String {
+fn fmt_num(v: f64) -> String {
+    if v >= 100.0 {
+        format!("{v:.0}")
+    } else if v >= 10.0 {
+        format!("{v:.1}")
+    } else {
+        format!("{v:.2}")
+    }
+}
+
+fn clinician_text(
+    input: &ReportInput,
+    w: &mut Words,
+    expl: &[ReportExplanation],
+    abn: &[Abnormality],
+) -> String {
     use std::fmt::Write;
     let mut s = String::new();
     let _ = writeln!(s, "CAUTION: {CAUTION}\n");
     let _ = writeln!(s, "FINDINGS");
     for ind in &input.facts.individuals {
-        let Some(&a) = input.abox.individuals.get(&ind.id) else { continue };
+        let Some(&a) = input.abox.individuals.get(&ind.id) else {
+            continue;
+        };
         if !input.abox.findings.contains(&a) {
             continue;
         }
@@ -196,28 +238,73 @@ fn clinician_text(input: &ReportInput, w: &mut Words, expl: &[ReportExplanation]
             .facts
             .relations
             .iter()
-            .filter(|r| r.subject == ind.id && r.degree >= input.alpha && !r.relation.starts_with("rcc8_DC"))
+            .filter(|r| {
+                r.subject == ind.id
+                    && r.degree >= input.alpha
+                    && r.relation != "rcc8_DC"
+                    && r.relation != "far"
+                    && (!is_directional(&r.relation) || r.degree >= 0.7)
+            })
             .collect();
-        rels.sort_by(|a, b| b.degree.partial_cmp(&a.degree).unwrap_or(std::cmp::Ordering::Equal).then(a.object.cmp(&b.object)));
+        rels.sort_by(|a, b| {
+            b.degree
+                .partial_cmp(&a.degree)
+                .unwrap_or(std::cmp::Ordering::Equal)
+                .then(a.object.cmp(&b.object))
+        });
         for r in rels.iter().take(8) {
-            let _ = writeln!(s, "  - {} ({:.2}, {})", w.relation(&r.relation, &r.subject, &r.object, false), r.degree, words::band(r.degree));
+            let _ = writeln!(
+                s,
+                "  - {} ({:.2}, {})",
+                w.relation(&r.relation, &r.subject, &r.object, false),
+                r.degree,
+                words::band(r.degree)
+            );
         }
-        for m in input.facts.measurements.iter().filter(|m| m.subject == ind.id && m.quantity == "min_distance_mm") {
-            if m.value <= 10.0 {
-                let _ = writeln!(s, "  - {} mm from {} (closest distance).", fmt_num(m.value), w.individual_label(&m.object, false));
+        for m in input
+            .facts
+            .measurements
+            .iter()
+            .filter(|m| m.subject == ind.id && m.quantity == "min_distance_mm")
+        {
+            let apart = input.facts.relations.iter().any(|r| {
+                r.subject == ind.id
+                    && r.object == m.object
+                    && (r.relation == "rcc8_DC" || r.relation == "rcc8_EC")
+            });
+            if apart && m.value <= 10.0 {
+                let _ = writeln!(
+                    s,
+                    "  - {} mm from {} (closest distance).",
+                    fmt_num(m.value),
+                    w.individual_label(&m.object, false)
+                );
             }
         }
     }
     let _ = writeln!(s, "\nINTERPRETATION (ranked; α-cut {:.2})", input.alpha);
     if !input.result.kb_consistent {
-        let _ = writeln!(s, "The case contradicts the knowledge base in a way no default explains; no interpretation is offered. See the formal register for the conflicting axioms.");
+        let _ = writeln!(
+            s,
+            "The case contradicts the knowledge base in a way no default explains; no interpretation is offered. See the formal register for the conflicting axioms."
+        );
     } else if input.result.already_entailed {
-        let _ = writeln!(s, "The knowledge base already accounts for the findings; no hypothesis is needed.");
+        let _ = writeln!(
+            s,
+            "The knowledge base already accounts for the findings; no hypothesis is needed."
+        );
     } else if expl.is_empty() {
-        let _ = writeln!(s, "No hypothesis of the knowledge base accounts for the findings.");
+        let _ = writeln!(
+            s,
+            "No hypothesis of the knowledge base accounts for the findings."
+        );
     }
     for e in expl {
-        let _ = writeln!(s, "{}. {} — degree {:.2}, score {:.2}.", e.rank, e.summary, e.degree, e.score);
+        let _ = writeln!(
+            s,
+            "{}. {} — degree {:.2}, score {:.2}.",
+            e.rank, e.summary, e.degree, e.score
+        );
     }
     if !input.result.unexplained.is_empty() {
         let _ = writeln!(s, "\nUNEXPLAINED");
@@ -232,7 +319,10 @@ fn clinician_text(input: &ReportInput, w: &mut Words, expl: &[ReportExplanation]
         }
     }
     if !input.result.complete {
-        let _ = writeln!(s, "\nNOTE: a search limit was reached; the list may be incomplete.");
+        let _ = writeln!(
+            s,
+            "\nNOTE: a search limit was reached; the list may be incomplete."
+        );
     }
     s
 }
@@ -244,7 +334,9 @@ fn patient_text(input: &ReportInput, w: &mut Words, abn: &[Abnormality]) -> Stri
     let _ = writeln!(s, "What the scan shows");
     let mut n = 0;
     for ind in &input.facts.individuals {
-        let Some(&a) = input.abox.individuals.get(&ind.id) else { continue };
+        let Some(&a) = input.abox.individuals.get(&ind.id) else {
+            continue;
+        };
         if !input.abox.findings.contains(&a) {
             continue;
         }
@@ -256,11 +348,27 @@ fn patient_text(input: &ReportInput, w: &mut Words, abn: &[Abnormality]) -> Stri
             .facts
             .relations
             .iter()
-            .filter(|r| r.subject == ind.id && r.degree >= 0.7 && (r.relation == "rcc8_NTPP" || r.relation == "rcc8_TPP" || r.relation == "rcc8_PO" || r.relation == "near"))
+            .filter(|r| {
+                r.subject == ind.id
+                    && r.degree >= 0.7
+                    && (r.relation == "rcc8_NTPP"
+                        || r.relation == "rcc8_TPP"
+                        || r.relation == "rcc8_PO"
+                        || r.relation == "near")
+            })
             .collect();
-        rels.sort_by(|a, b| b.degree.partial_cmp(&a.degree).unwrap_or(std::cmp::Ordering::Equal).then(a.object.cmp(&b.object)));
+        rels.sort_by(|a, b| {
+            b.degree
+                .partial_cmp(&a.degree)
+                .unwrap_or(std::cmp::Ordering::Equal)
+                .then(a.object.cmp(&b.object))
+        });
         for r in rels.iter().take(2) {
-            let _ = write!(s, "{} ", sentence(&w.relation(&r.relation, &r.subject, &r.object, true)));
+            let _ = write!(
+                s,
+                "{} ",
+                sentence(&w.relation(&r.relation, &r.subject, &r.object, true))
+            );
         }
         let _ = writeln!(s);
     }
@@ -269,24 +377,52 @@ fn patient_text(input: &ReportInput, w: &mut Words, abn: &[Abnormality]) -> Stri
     }
     let _ = writeln!(s, "\nWhat it could be");
     if !input.result.kb_consistent {
-        let _ = writeln!(s, "The computer could not match this scan to its list of known patterns. A doctor will look at it.");
+        let _ = writeln!(
+            s,
+            "The computer could not match this scan to its list of known patterns. A doctor will look at it."
+        );
     } else if input.result.explanations.is_empty() {
-        let _ = writeln!(s, "The computer found no likely match in its list. This does not mean something is wrong. A doctor will look at it.");
+        let _ = writeln!(
+            s,
+            "The computer found no likely match in its list. This does not mean something is wrong. A doctor will look at it."
+        );
     }
     for (i, e) in input.result.explanations.iter().take(3).enumerate() {
-        let what = e.assertions.iter().map(|a| w.assertion(a, true)).collect::<Vec<_>>().join(" and ");
-        let lead = if i == 0 { "The best match is" } else { "Another possible match is" };
-        let _ = writeln!(s, "{lead}: {what}. The computer's match is {}.", words::plain_band(e.degree));
+        let what = e
+            .assertions
+            .iter()
+            .map(|a| w.assertion(a, true))
+            .collect::<Vec<_>>()
+            .join(" and ");
+        let lead = if i == 0 {
+            "The best match is"
+        } else {
+            "Another possible match is"
+        };
+        let _ = writeln!(
+            s,
+            "{lead}: {what}. The computer's match is {}.",
+            words::plain_band(e.degree)
+        );
     }
     if !input.result.unexplained.is_empty() && !input.result.explanations.is_empty() {
-        let _ = writeln!(s, "Some parts of the scan did not match anything in the list. A doctor will look at them.");
+        let _ = writeln!(
+            s,
+            "Some parts of the scan did not match anything in the list. A doctor will look at them."
+        );
     }
     for a in abn {
-        let _ = writeln!(s, "One thing looked different from usual: the organs are not in their usual places. A doctor will check this.");
+        let _ = writeln!(
+            s,
+            "One thing looked different from usual: the organs are not in their usual places. A doctor will check this."
+        );
         let _ = a;
     }
     let _ = writeln!(s, "\nWhat this means and what happens next");
-    let _ = writeln!(s, "These are only ideas from a computer. They are not a diagnosis. Your care team will look at your scan. They will talk with you about what it means and what to do next. Please ask them any questions you have.");
+    let _ = writeln!(
+        s,
+        "These are only ideas from a computer. They are not a diagnosis. Your care team will look at your scan. They will talk with you about what it means and what to do next. Please ask them any questions you have."
+    );
     s
 }
 
@@ -309,7 +445,12 @@ fn formal_text(input: &ReportInput, expl: &[ReportExplanation]) -> String {
     let _ = writeln!(s, "Caution: {CAUTION}\n");
     let _ = writeln!(s, "Observations O:");
     for o in &input.problem.observations {
-        let _ = writeln!(s, "  {}    {}", dl_assertion(kb, o), o.text(kb, &kb.concepts));
+        let _ = writeln!(
+            s,
+            "  {}    {}",
+            dl_assertion(kb, o),
+            o.text(kb, &kb.concepts)
+        );
     }
     let _ = writeln!(
         s,
@@ -322,23 +463,49 @@ fn formal_text(input: &ReportInput, expl: &[ReportExplanation]) -> String {
     if !input.result.kb_consistent {
         let _ = writeln!(s, "Minimal conflicting set:");
         for (n, &i) in input.result.conflict.iter().enumerate() {
-            let _ = writeln!(s, "  ({}) {}    {}", n + 1, dl_axiom(kb, &kb.axioms[i].axiom), source_text(kb, i));
+            let _ = writeln!(
+                s,
+                "  ({}) {}    {}",
+                n + 1,
+                dl_axiom(kb, &kb.axioms[i].axiom),
+                source_text(kb, i)
+            );
         }
     }
     for &i in &input.result.suspended {
-        let _ = writeln!(s, "Suspended default: {}    {}", dl_axiom(kb, &kb.axioms[i].axiom), source_text(kb, i));
+        let _ = writeln!(
+            s,
+            "Suspended default: {}    {}",
+            dl_axiom(kb, &kb.axioms[i].axiom),
+            source_text(kb, i)
+        );
     }
     for (e, r) in expl.iter().zip(&input.result.explanations) {
-        let _ = writeln!(s, "\nE{} (size {}, degree {:.3}, score {:.3}):", e.rank, e.size, e.degree, e.score);
+        let _ = writeln!(
+            s,
+            "\nE{} (size {}, degree {:.3}, score {:.3}):",
+            e.rank, e.size, e.degree, e.score
+        );
         for a in &r.assertions {
-            let _ = writeln!(s, "  {}    {}", dl_assertion(kb, a), a.text(kb, &kb.concepts));
+            let _ = writeln!(
+                s,
+                "  {}    {}",
+                dl_assertion(kb, a),
+                a.text(kb, &kb.concepts)
+            );
         }
         let _ = writeln!(s, "  K ∪ E ⊨ O by the justification:");
         let mut just: Vec<usize> = r.justification.clone();
         just.sort_by_key(|&j| source_text(kb, j));
         just.dedup_by_key(|j| kb.axioms[*j].source);
         for (n, &j) in just.iter().enumerate() {
-            let _ = writeln!(s, "    ({}) {}    {}", n + 1, dl_axiom(kb, &kb.axioms[j].axiom), source_text(kb, j));
+            let _ = writeln!(
+                s,
+                "    ({}) {}    {}",
+                n + 1,
+                dl_axiom(kb, &kb.axioms[j].axiom),
+                source_text(kb, j)
+            );
         }
     }
     if !input.result.unexplained.is_empty() {
@@ -351,7 +518,11 @@ fn formal_text(input: &ReportInput, expl: &[ReportExplanation]) -> String {
 }
 
 fn short(iri: &str) -> String {
-    iri.rsplit(['#', '/']).next().filter(|x| !x.is_empty()).unwrap_or(iri).to_string()
+    iri.rsplit(['#', '/'])
+        .next()
+        .filter(|x| !x.is_empty())
+        .unwrap_or(iri)
+        .to_string()
 }
 
 /// A concept in description-logic notation with short names.
@@ -363,7 +534,11 @@ pub fn dl_concept(kb: &KnowledgeBase, c: crate::kb::ConceptId) -> String {
     };
     let paren = |x: crate::kb::ConceptId| {
         let t = dl_concept(kb, x);
-        if matches!(cs.get(x), Concept::And(_) | Concept::Or(_)) { format!("({t})") } else { t }
+        if matches!(cs.get(x), Concept::And(_) | Concept::Or(_)) {
+            format!("({t})")
+        } else {
+            t
+        }
     };
     match cs.get(c) {
         Concept::Top => "⊤".into(),
@@ -378,18 +553,35 @@ pub fn dl_concept(kb: &KnowledgeBase, c: crate::kb::ConceptId) -> String {
         Concept::All(r, x) => format!("∀{}.{}", role(*r), paren(*x)),
         Concept::AtLeast(n, r, x) => format!("≥{n} {}.{}", role(*r), paren(*x)),
         Concept::AtMost(n, r, x) => format!("≤{n} {}.{}", role(*r), paren(*x)),
-        Concept::DataSome(p, d) => format!("∃{}.{}", short(&kb.vocab.data_props[p.index()]), words::range_text(kb.ranges.get(*d))),
-        Concept::DataAll(p, d) => format!("∀{}.{}", short(&kb.vocab.data_props[p.index()]), words::range_text(kb.ranges.get(*d))),
+        Concept::DataSome(p, d) => format!(
+            "∃{}.{}",
+            short(&kb.vocab.data_props[p.index()]),
+            words::range_text(kb.ranges.get(*d))
+        ),
+        Concept::DataAll(p, d) => format!(
+            "∀{}.{}",
+            short(&kb.vocab.data_props[p.index()]),
+            words::range_text(kb.ranges.get(*d))
+        ),
     }
 }
 
 /// An assertion in description-logic notation.
 pub fn dl_assertion(kb: &KnowledgeBase, a: &Assertion) -> String {
     match *a {
-        Assertion::Class(c, i) => format!("{}({})", dl_concept(kb, c), short(kb.vocab.individual_iri(i))),
+        Assertion::Class(c, i) => format!(
+            "{}({})",
+            dl_concept(kb, c),
+            short(kb.vocab.individual_iri(i))
+        ),
         Assertion::Role(r, x, y) => {
             let (x, y) = if r.is_inverse() { (y, x) } else { (x, y) };
-            format!("{}({}, {})", short(kb.vocab.prop_iri(r.prop())), short(kb.vocab.individual_iri(x)), short(kb.vocab.individual_iri(y)))
+            format!(
+                "{}({}, {})",
+                short(kb.vocab.prop_iri(r.prop())),
+                short(kb.vocab.individual_iri(x)),
+                short(kb.vocab.individual_iri(y))
+            )
         }
     }
 }
@@ -405,16 +597,33 @@ pub fn dl_axiom(kb: &KnowledgeBase, a: &Axiom) -> String {
     match a {
         Axiom::SubClass(x, y) => format!("{} ⊑ {}", c(*x), c(*y)),
         Axiom::Equivalent(xs) => xs.iter().map(|&x| c(x)).collect::<Vec<_>>().join(" ≡ "),
-        Axiom::Disjoint(xs) => format!("disjoint({})", xs.iter().map(|&x| c(x)).collect::<Vec<_>>().join(", ")),
-        Axiom::DisjointUnion(x, xs) => format!("{} ≡ {} (disjoint)", c(*x), xs.iter().map(|&x| c(x)).collect::<Vec<_>>().join(" ⊔ ")),
+        Axiom::Disjoint(xs) => format!(
+            "disjoint({})",
+            xs.iter().map(|&x| c(x)).collect::<Vec<_>>().join(", ")
+        ),
+        Axiom::DisjointUnion(x, xs) => format!(
+            "{} ≡ {} (disjoint)",
+            c(*x),
+            xs.iter().map(|&x| c(x)).collect::<Vec<_>>().join(" ⊔ ")
+        ),
         Axiom::SubRole(r, s) => format!("{} ⊑ {}", role(*r), role(*s)),
         Axiom::Transitive(r) => format!("Trans({})", role(*r)),
         Axiom::Functional(r) => format!("⊤ ⊑ ≤1 {}.⊤", role(*r)),
         Axiom::Domain(r, x) => format!("∃{}.⊤ ⊑ {}", role(*r), c(*x)),
-        Axiom::SubDataProp(p, q) => format!("{} ⊑ {}", short(&kb.vocab.data_props[p.index()]), short(&kb.vocab.data_props[q.index()])),
+        Axiom::SubDataProp(p, q) => format!(
+            "{} ⊑ {}",
+            short(&kb.vocab.data_props[p.index()]),
+            short(&kb.vocab.data_props[q.index()])
+        ),
         Axiom::FunctionalData(p) => format!("Func({})", short(&kb.vocab.data_props[p.index()])),
-        Axiom::DataDomain(p, x) => format!("∃{}.⊤ ⊑ {}", short(&kb.vocab.data_props[p.index()]), c(*x)),
-        Axiom::DataRangeAxiom(p, d) => format!("⊤ ⊑ ∀{}.{}", short(&kb.vocab.data_props[p.index()]), words::range_text(kb.ranges.get(*d))),
+        Axiom::DataDomain(p, x) => {
+            format!("∃{}.⊤ ⊑ {}", short(&kb.vocab.data_props[p.index()]), c(*x))
+        }
+        Axiom::DataRangeAxiom(p, d) => format!(
+            "⊤ ⊑ ∀{}.{}",
+            short(&kb.vocab.data_props[p.index()]),
+            words::range_text(kb.ranges.get(*d))
+        ),
         Axiom::ClassAssertion(x, i) => format!("{}({})", c(*x), ind(*i)),
         Axiom::RoleAssertion(r, i, j) => format!("{}({}, {})", role(*r), ind(*i), ind(*j)),
         Axiom::NegativeRoleAssertion(r, i, j) => format!("¬{}({}, {})", role(*r), ind(*i), ind(*j)),
@@ -429,8 +638,20 @@ pub fn markdown(r: &Report) -> String {
     let mut s = String::new();
     let _ = writeln!(s, "# Report draft: {}\n", r.case);
     let _ = writeln!(s, "> **Caution.** {}\n", r.caution);
-    let _ = writeln!(s, "## For the clinician\n\n```text\n{}```\n", r.registers.clinician);
-    let _ = writeln!(s, "## For the patient\n\n{}\n", r.registers.patient.replace('\n', "\n\n").trim_end());
-    let _ = writeln!(s, "\n## Formal record\n\n```text\n{}```", r.registers.formal);
+    let _ = writeln!(
+        s,
+        "## For the clinician\n\n```text\n{}```\n",
+        r.registers.clinician
+    );
+    let _ = writeln!(
+        s,
+        "## For the patient\n\n{}\n",
+        r.registers.patient.replace('\n', "\n\n").trim_end()
+    );
+    let _ = writeln!(
+        s,
+        "\n## Formal record\n\n```text\n{}```",
+        r.registers.formal
+    );
     s
 }

@@ -6,7 +6,11 @@
 
 /// Syllables in one word by the rule above.
 pub fn syllables(word: &str) -> usize {
-    let w: Vec<char> = word.chars().filter(|c| c.is_ascii_alphabetic()).map(|c| c.to_ascii_lowercase()).collect();
+    let w: Vec<char> = word
+        .chars()
+        .filter(|c| c.is_ascii_alphabetic())
+        .map(|c| c.to_ascii_lowercase())
+        .collect();
     if w.is_empty() {
         return 0;
     }
@@ -29,7 +33,10 @@ pub fn syllables(word: &str) -> usize {
 
 /// Words, sentences and syllables of a text.
 pub fn counts(text: &str) -> (usize, usize, usize) {
-    let words: Vec<&str> = text.split_whitespace().filter(|w| w.chars().any(|c| c.is_ascii_alphabetic())).collect();
+    let words: Vec<&str> = text
+        .split_whitespace()
+        .filter(|w| w.chars().any(|c| c.is_ascii_alphabetic()))
+        .collect();
     let sentences = text
         .split(['.', '!', '?', '\n'])
         .filter(|s| s.chars().any(|c| c.is_ascii_alphabetic()))

@@ -46,10 +46,18 @@ pub fn range_text(r: &DataRange) -> String {
         for p in &r.spaces[i] {
             let mut b = Vec::new();
             if p.lo.value.is_finite() {
-                b.push(format!("{} {}", if p.lo.inclusive { "≥" } else { ">" }, p.lo.value));
+                b.push(format!(
+                    "{} {}",
+                    if p.lo.inclusive { "≥" } else { ">" },
+                    p.lo.value
+                ));
             }
             if p.hi.value.is_finite() {
-                b.push(format!("{} {}", if p.hi.inclusive { "≤" } else { "<" }, p.hi.value));
+                b.push(format!(
+                    "{} {}",
+                    if p.hi.inclusive { "≤" } else { "<" },
+                    p.hi.value
+                ));
             }
             let kind = match p.kind {
                 Kind::Int => "integer",
@@ -68,7 +76,11 @@ pub fn range_text(r: &DataRange) -> String {
     if r.other {
         parts.push("other literals".into());
     }
-    if parts.is_empty() { "∅".into() } else { parts.join(" ∪ ") }
+    if parts.is_empty() {
+        "∅".into()
+    } else {
+        parts.join(" ∪ ")
+    }
 }
 
 /// Verbaliser over one knowledge base.
@@ -81,12 +93,18 @@ pub struct Words<'a> {
 impl<'a> Words<'a> {
     /// A verbaliser.
     pub fn new(kb: &'a KnowledgeBase) -> Self {
-        Words { kb, gaps: BTreeSet::new() }
+        Words {
+            kb,
+            gaps: BTreeSet::new(),
+        }
     }
 
     fn english(&self, iri: &str, prop: &str) -> Option<String> {
         let vs = self.kb.annotation(iri, prop);
-        vs.iter().find(|v| v.lang.eq_ignore_ascii_case("en")).or_else(|| vs.iter().find(|v| v.lang.is_empty())).map(|v| v.value.clone())
+        vs.iter()
+            .find(|v| v.lang.eq_ignore_ascii_case("en"))
+            .or_else(|| vs.iter().find(|v| v.lang.is_empty()))
+            .map(|v| v.value.clone())
     }
 
     /// The label of an entity in a register.
@@ -112,19 +130,24 @@ impl<'a> Words<'a> {
     /// How a case individual is named: its id, with its class for organs.
     pub fn individual_label(&mut self, id: &str, plain: bool) -> String {
         let iri = format!("{CASE_NS}{id}");
-        let Some(a) = self.kb.vocab.find_individual(&iri) else { return id.to_string() };
+        let Some(a) = self.kb.vocab.find_individual(&iri) else {
+            return id.to_string();
+        };
         // The individual's asserted named class, if any.
         for ax in &self.kb.axioms {
-            if let crate::kb::Axiom::ClassAssertion(c, i) = ax.axiom {
-                if i == a {
-                    if let Concept::Atom(k) = self.kb.concepts.get(c) {
-                        let ciri = self.kb.vocab.class_iri(*k).to_string();
-                        if self.kb.annotation(&ciri, &format!("{WF}finding")).is_empty() {
-                            return format!("the {}", self.label(&ciri, plain).to_lowercase());
-                        }
-                        return id.to_string();
-                    }
+            if let crate::kb::Axiom::ClassAssertion(c, i) = ax.axiom
+                && i == a
+                && let Concept::Atom(k) = self.kb.concepts.get(c)
+            {
+                let ciri = self.kb.vocab.class_iri(*k).to_string();
+                if self
+                    .kb
+                    .annotation(&ciri, &format!("{WF}finding"))
+                    .is_empty()
+                {
+                    return format!("the {}", self.label(&ciri, plain).to_lowercase());
                 }
+                return id.to_string();
             }
         }
         id.to_string()
@@ -133,13 +156,16 @@ impl<'a> Words<'a> {
     /// A facts relation between two case individuals, in words.
     pub fn relation(&mut self, rel: &str, subject: &str, object: &str, plain: bool) -> String {
         let prop = self.kb.annotations.iter().find_map(|(s, m)| {
-            m.get(&format!("{WF}factsRelation")).filter(|vs| vs.iter().any(|v| v.value == rel)).map(|_| s.clone())
+            m.get(&format!("{WF}factsRelation"))
+                .filter(|vs| vs.iter().any(|v| v.value == rel))
+                .map(|_| s.clone())
         });
         let s = self.individual_label(subject, plain);
         let o = self.individual_label(object, plain);
         let pattern = prop.as_ref().and_then(|p| {
             if plain {
-                self.english(p, &format!("{WF}plainPhrase")).or_else(|| self.english(p, &format!("{WF}phrase")))
+                self.english(p, &format!("{WF}plainPhrase"))
+                    .or_else(|| self.english(p, &format!("{WF}phrase")))
             } else {
                 self.english(p, &format!("{WF}phrase"))
             }
@@ -159,10 +185,16 @@ impl<'a> Words<'a> {
                 let id = iri.strip_prefix(CASE_NS).unwrap_or(&iri).to_string();
                 let what = match kb.concepts.get(c) {
                     Concept::Atom(k) => self.label(kb.vocab.class_iri(*k), plain),
-                    Concept::NotAtom(k) => format!("not {}", self.label(kb.vocab.class_iri(*k), plain)),
+                    Concept::NotAtom(k) => {
+                        format!("not {}", self.label(kb.vocab.class_iri(*k), plain))
+                    }
                     _ => super::dl_concept(kb, c),
                 };
-                if plain { format!("{} ({id})", what.to_lowercase()) } else { format!("{id}: {what}") }
+                if plain {
+                    format!("{} ({id})", what.to_lowercase())
+                } else {
+                    format!("{id}: {what}")
+                }
             }
             Assertion::Role(r, x, y) => {
                 let (x, y) = if r.is_inverse() { (y, x) } else { (x, y) };

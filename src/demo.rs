@@ -73,7 +73,7 @@ pub fn cases() -> Vec<DemoCase> {
         DemoCase {
             id: "04-displaced-kidney",
             description: "a large mass pushes the right kidney down, contradicting a normal-anatomy default",
-            lesions: vec![l(20, "lesion1", [70.0, -45.0, -25.0], [30.0, 28.0, 30.0])],
+            lesions: vec![l(20, "lesion1", [70.0, -45.0, -14.0], [28.0, 26.0, 27.0])],
             displaced_kidney: true,
         },
         DemoCase {
@@ -85,7 +85,7 @@ pub fn cases() -> Vec<DemoCase> {
         DemoCase {
             id: "06-perivascular-mass",
             description: "a mass in contact with the aorta, with the distance reported",
-            lesions: vec![l(20, "lesion1", [-41.0, -22.0, -30.0], [13.0, 13.0, 15.0])],
+            lesions: vec![l(20, "lesion1", [-38.0, 2.0, -30.0], [12.0, 12.0, 14.0])],
             displaced_kidney: false,
         },
     ]
@@ -200,7 +200,19 @@ pub fn run(dir: &Path) -> Result<Vec<CaseOutcome>, String> {
             les.to_label_map("lesions.nii.gz"),
         ];
         let rows = parse_table(&tsv, "labels.tsv").map_err(|e| e.to_string())?;
-        let opts = MeasureOptions::default();
+        // Every pair with a finding, plus the organ pairs the normal-anatomy defaults speak of.
+        let mut opts = MeasureOptions::default();
+        for sel in [
+            "finding>*",
+            "anatomy>finding",
+            "spleen>liver",
+            "right_kidney>left_kidney,liver",
+            "aorta>ivc",
+            "gallbladder>aorta",
+        ] {
+            opts.pairs
+                .push(crate::spatial::measure::PairSelection::parse(sel)?);
+        }
         let measured = measure(&maps, &rows, "labels.tsv", &opts).map_err(|e| e.to_string())?;
         let facts = measured.facts;
         write(&cdir.join("facts.json"), facts.to_json().as_bytes())?;

@@ -5,6 +5,7 @@ pub mod common;
 pub mod demo;
 pub mod explain;
 pub mod measure;
+pub mod report;
 pub mod why;
 
 use clap::{Parser, Subcommand};
@@ -47,6 +48,8 @@ enum Command {
     Explain(explain::ExplainArgs),
     /// Justify an entailment, an unsatisfiable class or the inconsistency; list repairs.
     Why(why::WhyArgs),
+    /// Draft reports (clinician, patient, formal) for a case or a batch of cases.
+    Report(report::ReportArgs),
     /// Run the whole job on the built-in synthetic demo.
     Demo(demo::DemoArgs),
     /// Measure spatial relations between labelled regions of NIfTI label maps.
@@ -78,5 +81,6 @@ where
         Command::Explain(a) => explain::run(a),
         Command::Why(a) => why::run(a),
         Command::Demo(a) => demo::run(a),
+        Command::Report(a) => report::run(a),
     }
 }

@@ -1,0 +1,327 @@
+//! `wherefore report`: report drafts for one case (facts file) or a batch (manifest).
+
+use super::common::{KbOptions, load_kb, write_atomic};
+use crate::explain::ExplainOptions;
+use crate::explain::case::case_problem;
+use crate::facts::Facts;
+use crate::kb::KnowledgeBase;
+use crate::render::{self, ReportInput};
+use clap::{Args, ValueEnum};
+use serde::Deserialize;
+use std::path::{Path, PathBuf};
+
+/// The register of text output.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
+pub enum Register {
+    /// Concise, in the trade's terms.
+    Clinician,
+    /// Plain words.
+    Patient,
+    /// Description logic and functional syntax.
+    Formal,
+}
+
+/// The format of a single report.
+#[derive(Clone, Copy, Debug, PartialEq, Eq, ValueEnum)]
+pub enum ReportFormat {
+    /// Plain text of one register (all three when none is chosen).
+    Text,
+    /// The report as JSON.
+    Json,
+    /// Markdown draft.
+    Md,
+    /// Self-contained HTML draft.
+    Html,
+}
+
+/// Arguments of `wherefore report`.
+#[derive(Args, Debug)]
+pub struct ReportArgs {
+    /// Knowledge-base ontology files.
+    #[arg(long = "kb", required = true, num_args = 1..)]
+    pub kb: Vec<PathBuf>,
+    /// A facts file (from `measure`).
+    #[arg(long, conflicts_with = "manifest")]
+    pub facts: Option<PathBuf>,
+    /// A batch manifest (TOML, `[[case]]` tables).
+    #[arg(long)]
+    pub manifest: Option<PathBuf>,
+    /// Register for text output.
+    #[arg(long, value_enum)]
+    pub register: Option<Register>,
+    /// Output format of a single report.
+    #[arg(long, value_enum, default_value = "text")]
+    pub format: ReportFormat,
+    /// Output file (single report) or folder (batch).
+    #[arg(long)]
+    pub out: Option<PathBuf>,
+    /// α-cut for graded facts.
+    #[arg(long, default_value_t = 0.5)]
+    pub alpha: f64,
+    /// Largest explanation size.
+    #[arg(long = "max-size", default_value_t = 3)]
+    pub max_size: usize,
+    /// Process only slice i of n (1-based), e.g. 2/8, for array jobs.
+    #[arg(long)]
+    pub shard: Option<String>,
+    /// Redo cases whose outputs are newer than their inputs.
+    #[arg(long)]
+    pub force: bool,
+    #[command(flatten)]
+    kb_opts: KbOptions,
+}
+
+fn bad(msg: String) -> i32 {
+    eprintln!("error: {msg}");
+    super::EXIT_BAD_INPUT
+}
+
+fn read_facts(path: &Path) -> Result<Facts, String> {
+    let text = std::fs::read_to_string(path)
+        .map_err(|e| format!("{}: cannot read: {e}", path.display()))?;
+    let facts: Facts = serde_json::from_str(&text).map_err(|e| {
+        format!(
+            "{}: line {}, column {}: not a facts file: {e}",
+            path.display(),
+            e.line(),
+            e.column()
+        )
+    })?;
+    if facts.format != crate::facts::FORMAT {
+        return Err(format!(
+            "{}: format is {:?}, expected {:?}",
+            path.display(),
+            facts.format,
+            crate::facts::FORMAT
+        ));
+    }
+    Ok(facts)
+}
+
+/// Builds the report of one case.
+pub fn report_for(
+    kb: &KnowledgeBase,
+    facts: &Facts,
+    case: &str,
+    file: &str,
+    alpha: f64,
+    max_size: usize,
+) -> Result<render::Report, String> {
+    let c = case_problem(kb, facts, file);
+    let opts = ExplainOptions {
+        alpha,
+        max_size,
+        ..Default::default()
+    };
+    let result = crate::explain::explain(&c.problem, &opts).map_err(|r| r.reason)?;
+    let input = ReportInput {
+        case,
+        facts,
+        problem: &c.problem,
+        abox: &c.abox,
+        result: &result,
+        alpha,
+    };
+    Ok(render::build(&input))
+}
+
+/// Runs `report` and returns the exit code.
+pub fn run(args: ReportArgs) -> i32 {
+    if !(0.0..=1.0).contains(&args.alpha) || args.alpha == 0.0 {
+        return bad(format!("--alpha {} must lie in (0, 1]", args.alpha));
+    }
+    let kb = match load_kb(&args.kb, &args.kb_opts) {
+        Ok(kb) => kb,
+        Err(c) => return c,
+    };
+    if let Some(m) = &args.manifest {
+        return batch(&args, &kb, m);
+    }
+    let Some(fp) = &args.facts else {
+        return bad("give --facts FACTS.json or --manifest CASES.toml".into());
+    };
+    let facts = match read_facts(fp) {
+        Ok(f) => f,
+        Err(e) => return bad(e),
+    };
+    let case = fp
+        .file_stem()
+        .map(|s| s.to_string_lossy().to_string())
+        .unwrap_or_else(|| "case".into());
+    let report = match report_for(
+        &kb,
+        &facts,
+        &case,
+        &fp.display().to_string(),
+        args.alpha,
+        args.max_size,
+    ) {
+        Ok(r) => r,
+        Err(e) => return bad(format!("{}: {e}", fp.display())),
+    };
+    let text = match args.format {
+        ReportFormat::Json => serde_json::to_string_pretty(&report).unwrap_or_default() + "\n",
+        ReportFormat::Md => render::markdown(&report),
+        ReportFormat::Html => render::html::page(&report, &[]),
+        ReportFormat::Text => match args.register {
+            Some(Register::Clinician) => report.registers.clinician.clone(),
+            Some(Register::Patient) => report.registers.patient.clone(),
+            Some(Register::Formal) => report.registers.formal.clone(),
+            None => format!(
+                "{}\n{}\n{}",
+                report.registers.clinician, report.registers.patient, report.registers.formal
+            ),
+        },
+    };
+    match &args.out {
+        Some(p) => {
+            let mut inputs = args.kb.clone();
+            inputs.push(fp.clone());
+            if let Err(e) = write_atomic(p, text.as_bytes(), &inputs) {
+                return bad(e);
+            }
+        }
+        None => print!("{text}"),
+    }
+    super::EXIT_OK
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct Manifest {
+    case: Vec<ManifestCase>,
+}
+
+#[derive(Deserialize)]
+#[serde(deny_unknown_fields)]
+struct ManifestCase {
+    id: String,
+    facts: Option<PathBuf>,
+    maps: Option<Vec<PathBuf>>,
+    labels: Option<PathBuf>,
+}
+
+fn batch(args: &ReportArgs, kb: &KnowledgeBase, manifest: &Path) -> i32 {
+    let Some(out) = &args.out else {
+        return bad("batch mode needs --out DIR".into());
+    };
+    let text = match std::fs::read_to_string(manifest) {
+        Ok(t) => t,
+        Err(e) => return bad(format!("{}: cannot read: {e}", manifest.display())),
+    };
+    let m: Manifest = match toml::from_str(&text) {
+        Ok(m) => m,
+        Err(e) => return bad(format!("{}: {e}", manifest.display())),
+    };
+    let (shard, shards) = match &args.shard {
+        None => (1, 1),
+        Some(s) => match s
+            .split_once('/')
+            .and_then(|(a, b)| Some((a.parse::<usize>().ok()?, b.parse::<usize>().ok()?)))
+        {
+            Some((i, n)) if n >= 1 && (1..=n).contains(&i) => (i, n),
+            _ => return bad(format!("--shard {s}: expected i/n with 1 ≤ i ≤ n")),
+        },
+    };
+    let base = manifest.parent().unwrap_or(Path::new("."));
+    let mut failed = 0;
+    let mut done = 0;
+    let mut skipped = 0;
+    for (k, c) in m.case.iter().enumerate() {
+        if k % shards != shard - 1 {
+            continue;
+        }
+        if c.id.is_empty() || c.id.contains(['/', '\\']) || c.id.starts_with('.') {
+            eprintln!("case {:?}: the id must be a plain folder name", c.id);
+            failed += 1;
+            continue;
+        }
+        let dir = out.join(&c.id);
+        let inputs: Vec<PathBuf> = c
+            .facts
+            .iter()
+            .chain(c.maps.iter().flatten())
+            .chain(c.labels.iter())
+            .map(|p| base.join(p))
+            .collect();
+        let target = dir.join("report.json");
+        if !args.force && is_fresh(&target, &inputs) {
+            skipped += 1;
+            println!("{}: up to date, skipped", c.id);
+            continue;
+        }
+        match run_case(kb, c, base, &dir, args) {
+            Ok(()) => {
+                done += 1;
+                println!("{}: ok", c.id);
+            }
+            Err(e) => {
+                failed += 1;
+                eprintln!("{}: FAILED: {e}", c.id);
+            }
+        }
+    }
+    println!("{done} done, {skipped} skipped, {failed} failed (shard {shard}/{shards})");
+    if failed > 0 {
+        super::EXIT_BAD_INPUT
+    } else {
+        super::EXIT_OK
+    }
+}
+
+fn is_fresh(target: &Path, inputs: &[PathBuf]) -> bool {
+    let Ok(t) = std::fs::metadata(target).and_then(|m| m.modified()) else {
+        return false;
+    };
+    inputs.iter().all(|i| {
+        std::fs::metadata(i)
+            .and_then(|m| m.modified())
+            .map(|m| m <= t)
+            .unwrap_or(false)
+    })
+}
+
+fn run_case(
+    kb: &KnowledgeBase,
+    c: &ManifestCase,
+    base: &Path,
+    dir: &Path,
+    args: &ReportArgs,
+) -> Result<(), String> {
+    let facts = match (&c.facts, &c.maps, &c.labels) {
+        (Some(f), None, None) => read_facts(&base.join(f))?,
+        (None, Some(maps), Some(labels)) => {
+            let maps: Vec<_> = maps
+                .iter()
+                .map(|p| {
+                    crate::spatial::nifti_io::read_label_map(&base.join(p))
+                        .map_err(|e| e.to_string())
+                })
+                .collect::<Result<_, _>>()?;
+            let lp = base.join(labels);
+            let rows = crate::spatial::table::read_table(&lp).map_err(|e| e.to_string())?;
+            let m = crate::spatial::measure::measure(
+                &maps,
+                &rows,
+                &lp.display().to_string(),
+                &Default::default(),
+            )
+            .map_err(|e| e.to_string())?;
+            m.facts
+        }
+        _ => return Err("give either `facts` or both `maps` and `labels`".into()),
+    };
+    std::fs::create_dir_all(dir).map_err(|e| format!("{}: cannot create: {e}", dir.display()))?;
+    let report = report_for(kb, &facts, &c.id, &c.id, args.alpha, args.max_size)?;
+    let w = |name: &str, bytes: &[u8]| write_atomic(&dir.join(name), bytes, &[]);
+    if c.facts.is_none() {
+        w("facts.json", facts.to_json().as_bytes())?;
+    }
+    w("report.md", render::markdown(&report).as_bytes())?;
+    w("report.html", render::html::page(&report, &[]).as_bytes())?;
+    w(
+        "report.json",
+        (serde_json::to_string_pretty(&report).unwrap_or_default() + "\n").as_bytes(),
+    )?;
+    Ok(())
+}

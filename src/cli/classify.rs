@@ -23,6 +23,9 @@ pub struct ClassifyArgs {
     /// Print reasoner statistics on standard error.
     #[arg(long)]
     pub stats: bool,
+    /// Also give the most specific named classes of each named individual (realisation).
+    #[arg(long)]
+    pub realise: bool,
 }
 
 /// Runs `classify` and returns the exit code.
@@ -49,6 +52,19 @@ pub fn run(args: ClassifyArgs) -> i32 {
             return super::EXIT_LIMIT;
         }
     };
+    let realisation = if args.realise {
+        match crate::reasoner::realise(&mut r, &result) {
+            Ok(x) => Some(x),
+            Err(limit) => {
+                eprintln!(
+                    "error: realisation stopped: {limit}. Raise --timeout or --max-graph-nodes."
+                );
+                return super::EXIT_LIMIT;
+            }
+        }
+    } else {
+        None
+    };
     let total = start.elapsed();
     if args.stats {
         eprintln!(
@@ -57,9 +73,42 @@ pub fn run(args: ClassifyArgs) -> i32 {
         );
     }
     match args.format {
-        super::Format::Json => println!("{}", classification_json(&kb, &result)),
+        super::Format::Json => {
+            let mut v: serde_json::Value =
+                serde_json::from_str(&classification_json(&kb, &result)).unwrap_or_default();
+            if let Some(rz) = &realisation {
+                let mut m = serde_json::Map::new();
+                for (a, cs) in rz {
+                    let mut names: Vec<String> = cs
+                        .iter()
+                        .map(|&c| kb.vocab.class_iri(c).to_string())
+                        .collect();
+                    names.sort();
+                    m.insert(
+                        kb.vocab.individual_iri(*a).to_string(),
+                        serde_json::json!(names),
+                    );
+                }
+                v["realisation"] = serde_json::Value::Object(m);
+            }
+            println!("{}", serde_json::to_string_pretty(&v).unwrap_or_default());
+        }
         super::Format::Text => {
             print!("{}", classification_text(&kb, &result, &classes));
+            if let Some(rz) = &realisation {
+                println!("Most specific classes of each individual:");
+                for (a, cs) in rz {
+                    let names: Vec<String> = cs
+                        .iter()
+                        .map(|&c| short_name(kb.vocab.class_iri(c)))
+                        .collect();
+                    println!(
+                        "  {}: {}",
+                        short_name(kb.vocab.individual_iri(*a)),
+                        names.join(", ")
+                    );
+                }
+            }
             eprintln!(
                 "classified {} classes in {:.1} ms (loading {:.1} ms, reasoning {:.1} ms, {} tableau tests)",
                 classes.len(),

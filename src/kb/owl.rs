@@ -35,6 +35,7 @@ struct Parsed {
     components: Vec<AnnotatedComponent<ArcStr>>,
     iri: Option<String>,
     imports: Vec<String>,
+    rdf: bool,
 }
 
 /// Loads ontology files (and their imports) into a fresh knowledge base.
@@ -141,8 +142,35 @@ pub fn load_into(
         }
         idx += 1;
     }
+    // Strict RDF/XML: every class and property used must be declared somewhere in the
+    // loaded files (OWL 2 Mapping to RDF Graphs, §3.1.1, needs declarations to parse).
+    let mut declared: BTreeSet<String> = BTreeSet::new();
+    for (_, parsed, _) in &queue {
+        for ac in &parsed.components {
+            match &ac.component {
+                Component::DeclareClass(c) => {
+                    declared.insert(c.0.to_string());
+                }
+                Component::DeclareObjectProperty(p) => {
+                    declared.insert(p.0.to_string());
+                }
+                Component::DeclareDataProperty(p) => {
+                    declared.insert(p.0.to_string());
+                }
+                _ => {}
+            }
+        }
+    }
+    let mut first_seen: Vec<(String, bool, usize, usize, usize)> = Vec::new();
     for (path, parsed, _) in queue {
         let file = path.display().to_string();
+        first_seen.push((
+            file.clone(),
+            parsed.rdf,
+            kb.vocab.classes.len(),
+            kb.vocab.props.len(),
+            kb.vocab.data_props.len(),
+        ));
         kb.files.push(file.clone());
         let mut conv = Converter {
             kb,
@@ -150,6 +178,54 @@ pub fn load_into(
             lenient: opts.lenient,
         };
         conv.convert_all(&parsed.components)?;
+    }
+    first_seen.push((
+        String::new(),
+        false,
+        kb.vocab.classes.len(),
+        kb.vocab.props.len(),
+        kb.vocab.data_props.len(),
+    ));
+    for w in first_seen.windows(2) {
+        let (file, rdf, c0, p0, d0) = &w[0];
+        let (_, _, c1, p1, d1) = &w[1];
+        if !rdf {
+            continue;
+        }
+        let names = kb
+            .vocab
+            .classes
+            .iter()
+            .skip(*c0)
+            .take(c1 - c0)
+            .chain(kb.vocab.props.iter().skip(*p0).take(p1 - p0))
+            .chain(kb.vocab.data_props.iter().skip(*d0).take(d1 - d0));
+        let missing: Vec<String> = names
+            .filter(|n| !declared.contains(*n) && !n.starts_with(OWL) && !n.starts_with(XSD))
+            .cloned()
+            .collect();
+        if !missing.is_empty() {
+            let msg = format!(
+                "undeclared entit{} in strict RDF/XML: {}. Declare {} (rdf:type owl:Class, owl:ObjectProperty or owl:DatatypeProperty)",
+                if missing.len() == 1 { "y" } else { "ies" },
+                missing
+                    .iter()
+                    .take(5)
+                    .map(|m| format!("<{m}>"))
+                    .collect::<Vec<_>>()
+                    .join(", "),
+                if missing.len() == 1 { "it" } else { "them" }
+            );
+            if opts.lenient {
+                kb.warnings
+                    .push(format!("{file}: {msg}; going on (--lenient)"));
+            } else {
+                return Err(KbError::Syntax {
+                    file: file.clone(),
+                    reason: format!("{msg}, or pass --lenient."),
+                });
+            }
+        }
     }
     kb.signature_classes = (0..kb.vocab.classes.len() as u32)
         .map(super::ClassId)
@@ -292,6 +368,7 @@ fn parse_file(path: &Path) -> Result<Parsed, KbError> {
         });
     };
     let file2 = file.clone();
+    let is_rdf = matches!(kind, ResourceType::RDF);
     let (text, shift) = if matches!(kind, ResourceType::OFN) {
         with_standard_prefixes(&text)
     } else {
@@ -356,6 +433,7 @@ fn parse_file(path: &Path) -> Result<Parsed, KbError> {
         }
     }
     Ok(Parsed {
+        rdf: is_rdf,
         components,
         iri,
         imports,

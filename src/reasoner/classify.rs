@@ -195,3 +195,61 @@ fn told_closure(r: &Reasoner, classes: &[ClassId]) -> BTreeMap<ClassId, BTreeSet
 fn find_atom(r: &Reasoner, c: ClassId) -> Option<ConceptId> {
     r.concepts().find(&Concept::Atom(c))
 }
+
+/// Realisation: the most specific named classes of each named individual. Candidates are
+/// the atoms in the individual's label in a model of the KB (a class absent there is not
+/// entailed); each candidate is confirmed by an instance check; then the types subsumed by
+/// another type are dropped, using the classification.
+pub fn realise(
+    r: &mut Reasoner,
+    classification: &Classification,
+) -> Result<Vec<(crate::kb::IndividualId, Vec<ClassId>)>, Limit> {
+    let mut out = Vec::new();
+    if !classification.consistent {
+        return Ok(out);
+    }
+    let (ans, model) = r.consistent_with(&super::Extra::default());
+    match ans {
+        Answer::Yes => {}
+        Answer::No => return Ok(out),
+        Answer::Unknown(l) => return Err(l),
+    }
+    let model = model.unwrap_or_default();
+    let supers: BTreeSet<(ClassId, ClassId)> =
+        classification.subsumptions.iter().copied().collect();
+    let n = r.kb().vocab.individuals.len();
+    for i in 0..n {
+        let a = crate::kb::IndividualId(i as u32);
+        if r.kb().vocab.individual_iri(a).starts_with("_:") {
+            continue;
+        }
+        let label = model.labels.get(i).cloned().unwrap_or_default();
+        let mut types = Vec::new();
+        for c in label {
+            let Concept::Atom(k) = *r.concepts().get(c) else {
+                continue;
+            };
+            if !r.kb().signature_classes.contains(&k) {
+                continue;
+            }
+            match r.entails_class_assertion(c, a) {
+                Answer::Yes => types.push(k),
+                Answer::No => {}
+                Answer::Unknown(l) => return Err(l),
+            }
+        }
+        types.sort();
+        types.dedup();
+        let specific: Vec<ClassId> = types
+            .iter()
+            .copied()
+            .filter(|&t| {
+                !types
+                    .iter()
+                    .any(|&u| u != t && supers.contains(&(u, t)) && !supers.contains(&(t, u)))
+            })
+            .collect();
+        out.push((a, specific));
+    }
+    Ok(out)
+}

@@ -9,7 +9,7 @@ pub mod depset;
 pub mod prepare;
 pub mod tableau;
 
-pub use classify::{Classification, classify};
+pub use classify::{Classification, classify, realise};
 pub use prepare::{Prepared, Refusal};
 pub use tableau::{Model, Outcome};
 

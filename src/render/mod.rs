@@ -189,6 +189,26 @@ pub fn build(input: &ReportInput) -> Report {
     }
 }
 
+/// The relations of a subject that pass a filter, strongest first (then by object).
+fn relations_of<'f>(
+    facts: &'f Facts,
+    subject: &str,
+    keep: impl Fn(&crate::facts::Relation) -> bool,
+) -> Vec<&'f crate::facts::Relation> {
+    let mut rels: Vec<&crate::facts::Relation> = facts
+        .relations
+        .iter()
+        .filter(|r| r.subject == subject && keep(r))
+        .collect();
+    rels.sort_by(|a, b| {
+        b.degree
+            .partial_cmp(&a.degree)
+            .unwrap_or(std::cmp::Ordering::Equal)
+            .then(a.object.cmp(&b.object))
+    });
+    rels
+}
+
 fn is_directional(rel: &str) -> bool {
     matches!(
         rel,
@@ -234,23 +254,11 @@ fn clinician_text(
             ind.centroid_mm[1],
             ind.centroid_mm[2]
         );
-        let mut rels: Vec<&crate::facts::Relation> = input
-            .facts
-            .relations
-            .iter()
-            .filter(|r| {
-                r.subject == ind.id
-                    && r.degree >= input.alpha
-                    && r.relation != "rcc8_DC"
-                    && r.relation != "far"
-                    && (!is_directional(&r.relation) || r.degree >= 0.7)
-            })
-            .collect();
-        rels.sort_by(|a, b| {
-            b.degree
-                .partial_cmp(&a.degree)
-                .unwrap_or(std::cmp::Ordering::Equal)
-                .then(a.object.cmp(&b.object))
+        let rels = relations_of(input.facts, &ind.id, |r| {
+            r.degree >= input.alpha
+                && r.relation != "rcc8_DC"
+                && r.relation != "far"
+                && (!is_directional(&r.relation) || r.degree >= 0.7)
         });
         for r in rels.iter().take(8) {
             let _ = writeln!(
@@ -344,24 +352,12 @@ fn patient_text(input: &ReportInput, w: &mut Words, abn: &[Abnormality]) -> Stri
         let size_cm = ind.largest_diameter_mm / 10.0;
         let _ = write!(s, "The scan shows a spot, called {}. ", ind.id);
         let _ = write!(s, "It is about {:.1} cm across at its widest. ", size_cm);
-        let mut rels: Vec<&crate::facts::Relation> = input
-            .facts
-            .relations
-            .iter()
-            .filter(|r| {
-                r.subject == ind.id
-                    && r.degree >= 0.7
-                    && (r.relation == "rcc8_NTPP"
-                        || r.relation == "rcc8_TPP"
-                        || r.relation == "rcc8_PO"
-                        || r.relation == "near")
-            })
-            .collect();
-        rels.sort_by(|a, b| {
-            b.degree
-                .partial_cmp(&a.degree)
-                .unwrap_or(std::cmp::Ordering::Equal)
-                .then(a.object.cmp(&b.object))
+        let rels = relations_of(input.facts, &ind.id, |r| {
+            r.degree >= 0.7
+                && matches!(
+                    r.relation.as_str(),
+                    "rcc8_NTPP" | "rcc8_TPP" | "rcc8_PO" | "near"
+                )
         });
         for r in rels.iter().take(2) {
             let _ = write!(

@@ -57,6 +57,13 @@ pub struct Prepared {
     pub told: Vec<Vec<ConceptId>>,
     /// Roles that are simple (no transitive sub-role).
     pub simple: Vec<bool>,
+    /// Conjunctive rules from binary absorption: when every atom of the set is in a label,
+    /// the concept is added.
+    pub conj_rules: Vec<(Vec<ConceptId>, ConceptId)>,
+    /// For each concept id of an atom: the conjunctive rules it takes part in.
+    pub conj_index: Vec<Vec<usize>>,
+    /// Number of fresh atoms introduced by absorption.
+    pub fresh_atoms: u32,
 }
 
 impl Prepared {
@@ -298,6 +305,7 @@ pub fn prepare(
     p.universal = concepts.and(universal);
     let n = concepts.len();
     p.unfold.resize(n, Vec::new());
+    p.conj_index.resize(n, Vec::new());
     for u in p.unfold.iter_mut() {
         u.sort_unstable();
         u.dedup();
@@ -357,7 +365,42 @@ fn absorb(
             }
         }
         Concept::And(xs) => {
-            if let Some(&a) = xs
+            let horn = xs
+                .iter()
+                .all(|&x| matches!(concepts.get(x), Concept::Atom(_) | Concept::Some(..)))
+                && xs
+                    .iter()
+                    .any(|&x| matches!(concepts.get(x), Concept::Atom(_)))
+                && xs.len() >= 2;
+            if horn {
+                // Binary absorption (Hudek & Weddell 2006): each ∃r.F conjunct gets a fresh
+                // atom N with ∃r.F ⊑ N, and the conjunction of atoms becomes a rule that
+                // fires deterministically when all of them are in a label. The result is a
+                // conservative extension (interpret N as ∃r.F).
+                let mut atoms = Vec::new();
+                for &x in xs.iter() {
+                    if matches!(concepts.get(x), Concept::Atom(_)) {
+                        atoms.push(x);
+                    } else {
+                        // Fresh atoms take class ids from the top of the range, far from the
+                        // vocabulary's.
+                        p.fresh_atoms += 1;
+                        let n = concepts.atom(crate::kb::ClassId(u32::MAX - p.fresh_atoms));
+                        gcis.push((x, n));
+                        atoms.push(n);
+                    }
+                }
+                atoms.sort_unstable();
+                atoms.dedup();
+                let id = p.conj_rules.len();
+                for &a in &atoms {
+                    if p.conj_index.len() <= a.index() {
+                        p.conj_index.resize(a.index() + 1, Vec::new());
+                    }
+                    p.conj_index[a.index()].push(id);
+                }
+                p.conj_rules.push((atoms, d));
+            } else if let Some(&a) = xs
                 .iter()
                 .find(|&&x| matches!(concepts.get(x), Concept::Atom(_)))
             {

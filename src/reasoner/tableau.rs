@@ -450,6 +450,25 @@ impl<'a> Tableau<'a> {
                         self.add(x, u, dep);
                     }
                 }
+                if let Some(rules) = p.conj_index.get(c.index()) {
+                    for &ri in rules {
+                        let (atoms, d) = &p.conj_rules[ri];
+                        let mut all = dep;
+                        let mut ok = true;
+                        for &a in atoms {
+                            match self.has(x, a) {
+                                Some(da) => all = self.deps.union(all, da),
+                                None => {
+                                    ok = false;
+                                    break;
+                                }
+                            }
+                        }
+                        if ok {
+                            self.add(x, *d, all);
+                        }
+                    }
+                }
             }
             Concept::All(r, f) => {
                 for (y, s, ed) in self.neighbours(x) {

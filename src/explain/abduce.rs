@@ -186,8 +186,8 @@ impl Ctx<'_> {
         r: &mut Reasoner,
         e: &[Assertion],
         obs: &[Assertion],
-    ) -> Result<Option<Model>, Limit> {
-        for o in obs {
+    ) -> Result<Option<(Model, usize)>, Limit> {
+        for (k, o) in obs.iter().enumerate() {
             let mut extra = Extra::default();
             for a in e {
                 a.add_to(&mut extra);
@@ -195,7 +195,7 @@ impl Ctx<'_> {
             o.add_negation_to(r.concepts_mut(), &mut extra);
             self.stats.reasoner_calls += 1;
             match r.consistent_with(&extra) {
-                (Answer::Yes, m) => return Ok(Some(m.unwrap_or_default())),
+                (Answer::Yes, m) => return Ok(Some((m.unwrap_or_default(), k))),
                 (Answer::No, _) => {}
                 (Answer::Unknown(l), _) => return Err(l),
             }
@@ -428,6 +428,7 @@ fn search(
     let mut visited: BTreeSet<Vec<usize>> = BTreeSet::new();
     let mut queue: VecDeque<Vec<usize>> = VecDeque::new();
     queue.push_back(Vec::new());
+    let component = components(r, &abd);
     while let Some(set) = queue.pop_front() {
         if !visited.insert(set.clone()) {
             continue;
@@ -458,13 +459,23 @@ fn search(
                     found.push(set);
                 }
             }
-            Some(m) => {
+            Some((m, k)) => {
                 if set.len() >= ctx.opts.max_size {
                     continue;
                 }
+                let comp = component.get(&obs[k].individuals()[0]).copied();
                 for (i, a) in abd.iter().enumerate() {
                     if set.contains(&i) || holds(&m, r, a) {
                         continue;
+                    }
+                    // An assertion about individuals unconnected to the failing observation's
+                    // cannot help entail it (SHIQ without TBox nominals keeps unconnected
+                    // parts of the ABox independent); it could only make KB ∪ E
+                    // inconsistent, and such sets are pruned anyway.
+                    if let Some(c) = comp {
+                        if a.individuals().iter().all(|x| component.get(x) != Some(&c)) {
+                            continue;
+                        }
                     }
                     let mut child = set.clone();
                     child.push(i);
@@ -477,6 +488,67 @@ fn search(
         }
     }
     Ok((found, true))
+}
+
+/// Connected components of the individuals through role assertions, equalities and role
+/// abducibles; empty (no pruning) when the TBox has nominals, which connect everything.
+fn components(
+    r: &Reasoner,
+    abd: &[Assertion],
+) -> std::collections::HashMap<crate::kb::IndividualId, usize> {
+    let p = r.prepared();
+    let mut out = std::collections::HashMap::new();
+    if p.tbox_nominals {
+        return out;
+    }
+    let n = p.n_individuals;
+    let mut parent: Vec<usize> = (0..n).collect();
+    fn root(p: &mut [usize], mut i: usize) -> usize {
+        while p[i] != i {
+            p[i] = p[p[i]];
+            i = p[i];
+        }
+        i
+    }
+    let join = |a: usize, b: usize, parent: &mut Vec<usize>| {
+        if a < n && b < n {
+            let (x, y) = (root(parent, a), root(parent, b));
+            parent[x] = y;
+        }
+    };
+    for &(_, a, b) in &p.role_assertions {
+        join(a.index(), b.index(), &mut parent);
+    }
+    for &(a, b) in &p.same {
+        join(a.index(), b.index(), &mut parent);
+    }
+    // A negative property assertion or an enumeration also ties individuals together.
+    for &(c, a) in &p.class_assertions {
+        let mut stack = vec![c];
+        while let Some(x) = stack.pop() {
+            match r.concepts().get(x) {
+                Concept::Nominal(b) | Concept::NotNominal(b) => {
+                    join(a.index(), b.index(), &mut parent)
+                }
+                Concept::And(xs) | Concept::Or(xs) => stack.extend(xs.iter().copied()),
+                Concept::Some(_, f)
+                | Concept::All(_, f)
+                | Concept::AtLeast(_, _, f)
+                | Concept::AtMost(_, _, f) => stack.push(*f),
+                _ => {}
+            }
+        }
+    }
+    for a in abd {
+        if let Assertion::Role(_, x, y) = *a {
+            join(x.index(), y.index(), &mut parent);
+        }
+    }
+    for i in 0..n {
+        let c = root(&mut parent, i);
+        out.insert(crate::kb::IndividualId(i as u32), c);
+    }
+    out
 }
 
 /// One minimal set of enabled axioms that, with E, entails the observations (QuickXplain).

@@ -472,10 +472,10 @@ fn search(
                     // cannot help entail it (SHIQ without TBox nominals keeps unconnected
                     // parts of the ABox independent); it could only make KB ∪ E
                     // inconsistent, and such sets are pruned anyway.
-                    if let Some(c) = comp {
-                        if a.individuals().iter().all(|x| component.get(x) != Some(&c)) {
-                            continue;
-                        }
+                    if let Some(c) = comp
+                        && a.individuals().iter().all(|x| component.get(x) != Some(&c))
+                    {
+                        continue;
                     }
                     let mut child = set.clone();
                     child.push(i);

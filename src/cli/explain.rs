@@ -177,12 +177,7 @@ fn unknown_class(kb: &KnowledgeBase, a: &Assertion, n_classes: usize) -> Option<
             Concept::Atom(k) | Concept::NotAtom(k) if k.index() >= n_classes => {
                 return Some(kb.vocab.class_iri(*k).to_string());
             }
-            Concept::And(xs) | Concept::Or(xs) => stack.extend(xs.iter().copied()),
-            Concept::Some(_, f)
-            | Concept::All(_, f)
-            | Concept::AtLeast(_, _, f)
-            | Concept::AtMost(_, _, f) => stack.push(*f),
-            _ => {}
+            _ => stack.extend_from_slice(kb.concepts.children(x)),
         }
     }
     None

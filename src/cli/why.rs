@@ -5,7 +5,7 @@
 use super::common::{KbOptions, LimitOptions, load_kb, refusal_message};
 use crate::explain::justify::{all_justifications, minimal_hitting_sets, quickxplain};
 use crate::kb::{Axiom, ClassId, ConceptId, KnowledgeBase, owl};
-use crate::reasoner::{Answer, Limit, Limits, Reasoner};
+use crate::reasoner::{Answer, Limit, Reasoner};
 use clap::Args;
 use std::path::PathBuf;
 
@@ -308,6 +308,5 @@ pub fn run(args: WhyArgs) -> i32 {
         );
         return super::EXIT_LIMIT;
     }
-    let _ = Limits::default();
     super::EXIT_OK
 }

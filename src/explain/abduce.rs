@@ -294,14 +294,9 @@ fn run(ctx: &mut Ctx, out: &mut ExplainResult) -> Result<(), Stop> {
         let conflict = conflict_of(ctx, &mask)?;
         match diagnose(ctx, &mask, &defaults)? {
             Some(d) if !d.is_empty() => {
-                let mut conflicts = Vec::new();
-                for &x in &d {
-                    let _ = x;
-                }
-                conflicts.push(conflict);
                 suspended = d;
                 out.suspended = suspended.clone();
-                out.suspended_conflicts = conflicts;
+                out.suspended_conflicts = vec![conflict];
                 mask = ctx.mask(alpha, &suspended);
                 r = ctx.reasoner(kb, &mask)?;
             }
@@ -530,12 +525,7 @@ fn components(
                 Concept::Nominal(b) | Concept::NotNominal(b) => {
                     join(a.index(), b.index(), &mut parent)
                 }
-                Concept::And(xs) | Concept::Or(xs) => stack.extend(xs.iter().copied()),
-                Concept::Some(_, f)
-                | Concept::All(_, f)
-                | Concept::AtLeast(_, _, f)
-                | Concept::AtMost(_, _, f) => stack.push(*f),
-                _ => {}
+                _ => stack.extend_from_slice(r.concepts().children(x)),
             }
         }
     }
@@ -605,7 +595,7 @@ fn diagnose(ctx: &mut Ctx, mask: &[bool], defaults: &[usize]) -> Result<Option<V
     let kb = &ctx.problem.kb;
     let n = defaults.len();
     let mut combos: Vec<Vec<usize>> = vec![vec![]];
-    for size in 1..=n.min(3) {
+    for _size in 1..=n.min(3) {
         let mut next = Vec::new();
         for c in &combos {
             let start = c.last().map(|&x| x + 1).unwrap_or(0);
@@ -626,7 +616,6 @@ fn diagnose(ctx: &mut Ctx, mask: &[bool], defaults: &[usize]) -> Result<Option<V
             }
         }
         combos = next;
-        let _ = size;
     }
     Ok(None)
 }

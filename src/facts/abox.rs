@@ -4,7 +4,7 @@
 
 use super::Facts;
 use crate::kb::datarange::{DataRange, Piece, Space};
-use crate::kb::{Axiom, Concept, IndividualId, KnowledgeBase, PropId, RoleId};
+use crate::kb::{Axiom, Concept, IndividualId, KnowledgeBase, RoleId};
 use std::collections::BTreeMap;
 
 /// The namespace of case individuals: a facts id `lesion1` becomes `<CASE_NS>lesion1`.
@@ -162,7 +162,6 @@ pub fn add_facts(kb: &mut KnowledgeBase, facts: &Facts, file: &str) -> CaseAbox 
             }
         }
     }
-    let _ = PropId(0);
     out
 }
 

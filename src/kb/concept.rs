@@ -104,6 +104,18 @@ impl ConceptStore {
         self.ids.get(c).copied()
     }
 
+    /// The direct sub-concepts of a concept (operands of ⊓/⊔, fillers of restrictions).
+    pub fn children(&self, id: ConceptId) -> &[ConceptId] {
+        match &self.concepts[id.index()] {
+            Concept::And(xs) | Concept::Or(xs) => xs,
+            Concept::Some(_, f)
+            | Concept::All(_, f)
+            | Concept::AtLeast(_, _, f)
+            | Concept::AtMost(_, _, f) => std::slice::from_ref(f),
+            _ => &[],
+        }
+    }
+
     /// The negation (in NNF) of a concept.
     pub fn not(&self, id: ConceptId) -> ConceptId {
         self.negations[id.index()]

@@ -1117,17 +1117,6 @@ impl<'a> Tableau<'a> {
         let mut iter: u64 = 0;
         loop {
             iter += 1;
-            if iter.is_multiple_of(2000) && std::env::var("WF_DEBUG").is_ok() {
-                eprintln!(
-                    "iter {iter} nodes {} active {} stack {} clashes {} branches {} merges {}",
-                    self.g.nodes.len(),
-                    self.g.nodes.iter().filter(|n| n.active).count(),
-                    self.stack.len(),
-                    self.stats.clashes,
-                    self.stats.branches,
-                    self.stats.merges
-                );
-            }
             if iter.is_multiple_of(64) {
                 if let Some(dl) = self.limits.deadline
                     && std::time::Instant::now() >= dl

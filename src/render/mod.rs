@@ -407,12 +407,11 @@ fn patient_text(input: &ReportInput, w: &mut Words, abn: &[Abnormality]) -> Stri
             "Some parts of the scan did not match anything in the list. A doctor will look at them."
         );
     }
-    for a in abn {
+    if !abn.is_empty() {
         let _ = writeln!(
             s,
             "One thing looked different from usual: the organs are not in their usual places. A doctor will check this."
         );
-        let _ = a;
     }
     let _ = writeln!(s, "\nWhat this means and what happens next");
     let _ = writeln!(

@@ -1,10 +1,11 @@
 //! `wherefore explain`: abduction from observations in an ontology file.
 
 use super::common::{KbOptions, LimitOptions, load_kb, refusal_message};
-use crate::explain::{Assertion, ExplainOptions, ExplainResult, Problem, explain};
-use crate::kb::{Axiom, Concept, KnowledgeBase, RoleId, owl};
+use crate::explain::case::{Mark, observations_problem, read_abducibles};
+use crate::explain::{ExplainOptions, ExplainResult, Problem, explain};
+use crate::kb::{KnowledgeBase, owl};
 use clap::Args;
-use std::path::{Path, PathBuf};
+use std::path::PathBuf;
 
 /// Arguments of `wherefore explain`.
 #[derive(Args, Debug)]
@@ -13,8 +14,14 @@ pub struct ExplainArgs {
     #[arg(required = true)]
     pub kb: Vec<PathBuf>,
     /// Ontology file whose class and property assertions are the observations.
+    #[arg(long, required_unless_present = "facts", conflicts_with = "facts")]
+    pub observations: Option<PathBuf>,
+    /// A facts file (from `measure`): its findings are the observations, the rest background.
     #[arg(long)]
-    pub observations: PathBuf,
+    pub facts: Option<PathBuf>,
+    /// α-cut for the facts' graded relations.
+    #[arg(long, default_value_t = 0.5)]
+    pub alpha: f64,
     /// Abducibles: lines `class IRI`, `not-class IRI` or `property IRI`.
     #[arg(long)]
     pub abducibles: Option<PathBuf>,
@@ -46,6 +53,7 @@ pub fn run(args: ExplainArgs) -> i32 {
         max_size: args.max_size,
         limits: args.limits.limits(),
         max_tree_nodes: args.max_nodes,
+        alpha: args.alpha,
         ..Default::default()
     };
     let result = match explain(&problem, &opts) {
@@ -79,177 +87,54 @@ fn bad(msg: String) -> i32 {
     super::EXIT_BAD_INPUT
 }
 
-/// Loads the KB and the observations, and reads or derives the abducibles.
+/// Loads the KB and the observations (an ontology file or a facts file), and reads or
+/// derives the abducibles.
 pub fn build_problem(args: &ExplainArgs) -> Result<Problem, i32> {
-    let mut kb = load_kb(&args.kb, &args.kb_opts)?;
-    let n_ax = kb.axioms.len();
-    let n_classes = kb.vocab.classes.len();
-    let n_inds = kb.vocab.individuals.len();
-    let n_props = kb.vocab.props.len();
+    let kb = load_kb(&args.kb, &args.kb_opts)?;
+    if let Some(fp) = &args.facts {
+        if !(args.alpha > 0.0 && args.alpha <= 1.0) {
+            return Err(bad(format!("--alpha {} must lie in (0, 1]", args.alpha)));
+        }
+        let facts = crate::facts::read_facts(fp).map_err(bad)?;
+        let file = fp.display().to_string();
+        let mut case = crate::explain::case::case_problem(&kb, &facts, &file);
+        for w in &case.abox.warnings {
+            eprintln!("warning: {w}");
+        }
+        if case.problem.observations.is_empty() {
+            return Err(bad(format!(
+                "{file}: no finding to explain: no individual's class is marked {}finding in the KB",
+                crate::explain::WF
+            )));
+        }
+        if let Some(p) = &args.abducibles {
+            let individuals: Vec<_> = case.abox.individuals.values().copied().collect();
+            case.problem.abducibles =
+                read_abducibles(&mut case.problem.kb, p, &individuals).map_err(bad)?;
+        }
+        return Ok(case.problem);
+    }
+    let Some(obs) = &args.observations else {
+        return Err(bad(
+            "give the observations: --observations OBS.ofn or --facts FACTS.json".into(),
+        ));
+    };
+    let mut kb = kb;
+    let mark = Mark::of(&kb);
     let lo = owl::LoadOptions {
         import_dirs: args.kb_opts.import_dirs.clone(),
         lenient: false,
     };
-    if let Err(e) = owl::load_into(&mut kb, std::slice::from_ref(&args.observations), &lo) {
+    if let Err(e) = owl::load_into(&mut kb, std::slice::from_ref(obs), &lo) {
         return Err(bad(e.to_string()));
     }
-    kb.signature_classes.retain(|c| c.index() < n_classes);
-    let obs_file = args.observations.display().to_string();
-    let mut observations = Vec::new();
-    for i in n_ax..kb.axioms.len() {
-        let text = kb.sources[kb.axioms[i].source].text.clone();
-        let a = match &kb.axioms[i].axiom {
-            Axiom::ClassAssertion(c, a) => Assertion::Class(*c, *a),
-            Axiom::RoleAssertion(r, a, b) => Assertion::Role(*r, *a, *b),
-            _ => {
-                return Err(bad(format!(
-                    "{obs_file}: axiom {text} is not a class or property assertion; the observations file may hold only ClassAssertion and ObjectPropertyAssertion axioms"
-                )));
-            }
-        };
-        for ind in a.individuals() {
-            if ind.index() >= n_inds {
-                return Err(bad(format!(
-                    "{obs_file}: axiom {text} names the individual <{}>, which the knowledge base does not know; add it to the KB or fix the IRI",
-                    kb.vocab.individual_iri(ind)
-                )));
-            }
-        }
-        if let Some(c) = unknown_class(&kb, &a, n_classes) {
-            return Err(bad(format!(
-                "{obs_file}: axiom {text} names the class <{c}>, which the knowledge base does not know; fix the IRI"
-            )));
-        }
-        if let Assertion::Role(r, _, _) = a
-            && r.prop().index() >= n_props
-        {
-            return Err(bad(format!(
-                "{obs_file}: axiom {text} names the property <{}>, which the knowledge base does not know; fix the IRI",
-                kb.vocab.prop_iri(r.prop())
-            )));
-        }
-        observations.push(a);
-    }
-    if observations.is_empty() {
-        return Err(bad(format!(
-            "{obs_file}: no class or property assertion to explain; add the observations"
-        )));
-    }
-    let individuals: Vec<crate::kb::IndividualId> = (0..kb.vocab.individuals.len() as u32)
-        .map(crate::kb::IndividualId)
-        .filter(|i| !kb.vocab.individual_iri(*i).starts_with("_:"))
-        .collect();
-    let abducibles = match &args.abducibles {
-        Some(p) => read_abducibles(&mut kb, p, &individuals)?,
-        None => {
-            let findings: Vec<_> = observations
-                .iter()
-                .flat_map(|o| o.individuals().into_iter().take(1))
-                .collect();
-            let a = crate::explain::abduce::annotated_abducibles(&mut kb, &findings, &individuals);
-            if a.is_empty() {
-                return Err(bad(format!(
-                    "no abducibles: give --abducibles FILE, or mark hypothesis classes in the KB with {}hypothesis \"true\"",
-                    crate::explain::WF
-                )));
-            }
-            a
-        }
-    };
-    let n = kb.axioms.len();
-    let background = (0..n).map(|i| i < n_ax).collect();
-    Ok(Problem {
+    observations_problem(
         kb,
-        background,
-        degrees: vec![1.0; n],
-        observations,
-        abducibles,
-    })
-}
-
-fn unknown_class(kb: &KnowledgeBase, a: &Assertion, n_classes: usize) -> Option<String> {
-    let Assertion::Class(c, _) = a else {
-        return None;
-    };
-    let mut stack = vec![*c];
-    while let Some(x) = stack.pop() {
-        match kb.concepts.get(x) {
-            Concept::Atom(k) | Concept::NotAtom(k) if k.index() >= n_classes => {
-                return Some(kb.vocab.class_iri(*k).to_string());
-            }
-            _ => stack.extend_from_slice(kb.concepts.children(x)),
-        }
-    }
-    None
-}
-
-/// Reads an abducibles file: `class IRI`, `not-class IRI`, `property IRI`; `#` comments.
-pub fn read_abducibles(
-    kb: &mut KnowledgeBase,
-    path: &Path,
-    individuals: &[crate::kb::IndividualId],
-) -> Result<Vec<Assertion>, i32> {
-    let file = path.display().to_string();
-    let text =
-        std::fs::read_to_string(path).map_err(|e| bad(format!("{file}: cannot read: {e}")))?;
-    let mut out = Vec::new();
-    for (n, line) in text.lines().enumerate() {
-        let line = line.trim();
-        if line.is_empty() || line.starts_with('#') {
-            continue;
-        }
-        let (kind, iri) = line.split_once(char::is_whitespace).unwrap_or((line, ""));
-        let iri = iri.trim().trim_start_matches('<').trim_end_matches('>');
-        if iri.is_empty() {
-            return Err(bad(format!(
-                "{file}:{}: expected `class IRI`, `not-class IRI` or `property IRI`",
-                n + 1
-            )));
-        }
-        match kind {
-            "class" | "not-class" => {
-                let Some(c) = kb.vocab.find_class(iri) else {
-                    return Err(bad(format!(
-                        "{file}:{}: unknown class <{iri}>; it does not occur in the KB",
-                        n + 1
-                    )));
-                };
-                let mut k = kb.concepts.atom(c);
-                if kind == "not-class" {
-                    k = kb.concepts.not(k);
-                }
-                out.extend(individuals.iter().map(|&a| Assertion::Class(k, a)));
-            }
-            "property" => {
-                let Some(p) = kb.vocab.find_prop(iri) else {
-                    return Err(bad(format!(
-                        "{file}:{}: unknown object property <{iri}>",
-                        n + 1
-                    )));
-                };
-                let r = RoleId::named(p);
-                for &a in individuals {
-                    for &b in individuals {
-                        out.push(Assertion::Role(r, a, b));
-                    }
-                }
-            }
-            other => {
-                return Err(bad(format!(
-                    "{file}:{}: unknown kind `{other}`; use `class`, `not-class` or `property`",
-                    n + 1
-                )));
-            }
-        }
-    }
-    if out.is_empty() {
-        return Err(bad(format!(
-            "{file}: the abducible set is empty; list at least one class or property"
-        )));
-    }
-    out.sort();
-    out.dedup();
-    Ok(out)
+        mark,
+        &obs.display().to_string(),
+        args.abducibles.as_deref(),
+    )
+    .map_err(bad)
 }
 
 /// The source texts of internal axioms, sorted and without repeats.

@@ -1,11 +1,8 @@
 //! `wherefore report`: report drafts for one case (facts file) or a batch (manifest).
 
 use super::common::{KbOptions, load_kb, write_atomic};
-use crate::explain::ExplainOptions;
-use crate::explain::case::case_problem;
-use crate::facts::Facts;
 use crate::kb::KnowledgeBase;
-use crate::render::{self, ReportInput};
+use crate::render;
 use clap::{Args, ValueEnum};
 use serde::Deserialize;
 use std::path::{Path, PathBuf};
@@ -76,55 +73,6 @@ fn bad(msg: String) -> i32 {
     super::EXIT_BAD_INPUT
 }
 
-fn read_facts(path: &Path) -> Result<Facts, String> {
-    let text = std::fs::read_to_string(path)
-        .map_err(|e| format!("{}: cannot read: {e}", path.display()))?;
-    let facts: Facts = serde_json::from_str(&text).map_err(|e| {
-        format!(
-            "{}: line {}, column {}: not a facts file: {e}",
-            path.display(),
-            e.line(),
-            e.column()
-        )
-    })?;
-    if facts.format != crate::facts::FORMAT {
-        return Err(format!(
-            "{}: format is {:?}, expected {:?}",
-            path.display(),
-            facts.format,
-            crate::facts::FORMAT
-        ));
-    }
-    Ok(facts)
-}
-
-/// Builds the report of one case.
-pub fn report_for(
-    kb: &KnowledgeBase,
-    facts: &Facts,
-    case: &str,
-    file: &str,
-    alpha: f64,
-    max_size: usize,
-) -> Result<render::Report, String> {
-    let c = case_problem(kb, facts, file);
-    let opts = ExplainOptions {
-        alpha,
-        max_size,
-        ..Default::default()
-    };
-    let result = crate::explain::explain(&c.problem, &opts).map_err(|r| r.reason)?;
-    let input = ReportInput {
-        case,
-        facts,
-        problem: &c.problem,
-        abox: &c.abox,
-        result: &result,
-        alpha,
-    };
-    Ok(render::build(&input))
-}
-
 /// Runs `report` and returns the exit code.
 pub fn run(args: ReportArgs) -> i32 {
     if !(0.0..=1.0).contains(&args.alpha) || args.alpha == 0.0 {
@@ -140,7 +88,7 @@ pub fn run(args: ReportArgs) -> i32 {
     let Some(fp) = &args.facts else {
         return bad("give --facts FACTS.json or --manifest CASES.toml".into());
     };
-    let facts = match read_facts(fp) {
+    let facts = match crate::facts::read_facts(fp) {
         Ok(f) => f,
         Err(e) => return bad(e),
     };
@@ -148,7 +96,7 @@ pub fn run(args: ReportArgs) -> i32 {
         .file_stem()
         .map(|s| s.to_string_lossy().to_string())
         .unwrap_or_else(|| "case".into());
-    let report = match report_for(
+    let report = match render::report_for(
         &kb,
         &facts,
         &case,
@@ -289,7 +237,7 @@ fn run_case(
     args: &ReportArgs,
 ) -> Result<(), String> {
     let facts = match (&c.facts, &c.maps, &c.labels) {
-        (Some(f), None, None) => read_facts(&base.join(f))?,
+        (Some(f), None, None) => crate::facts::read_facts(&base.join(f))?,
         (None, Some(maps), Some(labels)) => {
             let maps: Vec<_> = maps
                 .iter()
@@ -312,7 +260,7 @@ fn run_case(
         _ => return Err("give either `facts` or both `maps` and `labels`".into()),
     };
     std::fs::create_dir_all(dir).map_err(|e| format!("{}: cannot create: {e}", dir.display()))?;
-    let report = report_for(kb, &facts, &c.id, &c.id, args.alpha, args.max_size)?;
+    let report = render::report_for(kb, &facts, &c.id, &c.id, args.alpha, args.max_size)?;
     let w = |name: &str, bytes: &[u8]| write_atomic(&dir.join(name), bytes, &[]);
     if c.facts.is_none() {
         w("facts.json", facts.to_json().as_bytes())?;

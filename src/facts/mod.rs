@@ -139,3 +139,26 @@ impl Facts {
         s
     }
 }
+
+/// Reads and checks a facts file (contract, `measure`).
+pub fn read_facts(path: &std::path::Path) -> Result<Facts, String> {
+    let text = std::fs::read_to_string(path)
+        .map_err(|e| format!("{}: cannot read: {e}", path.display()))?;
+    let facts: Facts = serde_json::from_str(&text).map_err(|e| {
+        format!(
+            "{}: line {}, column {}: not a facts file: {e}",
+            path.display(),
+            e.line(),
+            e.column()
+        )
+    })?;
+    if facts.format != FORMAT {
+        return Err(format!(
+            "{}: format is {:?}, expected {:?}",
+            path.display(),
+            facts.format,
+            FORMAT
+        ));
+    }
+    Ok(facts)
+}

@@ -650,3 +650,30 @@ pub fn markdown(r: &Report) -> String {
     );
     s
 }
+
+/// Builds the report of one case.
+pub fn report_for(
+    kb: &KnowledgeBase,
+    facts: &Facts,
+    case: &str,
+    file: &str,
+    alpha: f64,
+    max_size: usize,
+) -> Result<Report, String> {
+    let c = crate::explain::case::case_problem(kb, facts, file);
+    let opts = crate::explain::ExplainOptions {
+        alpha,
+        max_size,
+        ..Default::default()
+    };
+    let result = crate::explain::explain(&c.problem, &opts).map_err(|r| r.reason)?;
+    let input = ReportInput {
+        case,
+        facts,
+        problem: &c.problem,
+        abox: &c.abox,
+        result: &result,
+        alpha,
+    };
+    Ok(build(&input))
+}

@@ -424,6 +424,36 @@ fn search(
     let mut queue: VecDeque<Vec<usize>> = VecDeque::new();
     queue.push_back(Vec::new());
     let component = components(r, &abd);
+    // Lower-bound pruning. When unconnected parts of the ABox are independent (no TBox
+    // nominals), an observation that the KB alone does not entail stays unexplained until
+    // the set holds an abducible about its part; so a set needs at least one more abducible
+    // for each such part, and children that cannot fit within `max_size` are dropped.
+    let mut needy: Vec<usize> = Vec::new();
+    if !component.is_empty() {
+        for o in obs {
+            if !ctx.entails(r, &[], std::slice::from_ref(o))?
+                && let Some(&c) = component.get(&o.individuals()[0])
+            {
+                needy.push(c);
+            }
+        }
+        needy.sort_unstable();
+        needy.dedup();
+    }
+    let parts_of = |i: usize| -> Vec<usize> {
+        abd[i]
+            .individuals()
+            .iter()
+            .filter_map(|x| component.get(x).copied())
+            .collect()
+    };
+    let abd_parts: Vec<Vec<usize>> = (0..abd.len()).map(parts_of).collect();
+    let lower_bound = |set: &[usize]| -> usize {
+        needy
+            .iter()
+            .filter(|c| !set.iter().any(|&i| abd_parts[i].contains(c)))
+            .count()
+    };
     while let Some(set) = queue.pop_front() {
         if !visited.insert(set.clone()) {
             continue;
@@ -475,6 +505,9 @@ fn search(
                     let mut child = set.clone();
                     child.push(i);
                     child.sort_unstable();
+                    if child.len() + lower_bound(&child) > ctx.opts.max_size {
+                        continue;
+                    }
                     if !visited.contains(&child) {
                         queue.push_back(child);
                     }

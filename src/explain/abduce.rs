@@ -9,7 +9,7 @@
 //! smaller explanation (non-minimal).
 
 use super::assertion::Assertion;
-use super::justify::quickxplain;
+use super::justify::{all_justifications, quickxplain};
 use crate::kb::{Concept, KnowledgeBase, RoleId};
 use crate::reasoner::{Answer, Extra, Limit, Limits, Model, Reasoner, Refusal};
 use serde::Serialize;
@@ -291,18 +291,29 @@ fn run(ctx: &mut Ctx, out: &mut ExplainResult) -> Result<(), Stop> {
             .copied()
             .filter(|&i| is_default(kb, i))
             .collect();
-        let conflict = conflict_of(ctx, &mask)?;
         match diagnose(ctx, &mask, &defaults)? {
-            Some(d) if !d.is_empty() => {
+            Some((d, conflicts)) if !d.is_empty() => {
                 suspended = d;
                 out.suspended = suspended.clone();
-                out.suspended_conflicts = vec![conflict];
+                // Each conflict in full: the defaults with the case's other axioms.
+                let mut full = Vec::new();
+                for c in conflicts {
+                    let mut m = ctx.mask(alpha, &suspended);
+                    for &i in &c {
+                        m[i] = true;
+                    }
+                    let conflict = conflict_of(ctx, &m)?;
+                    if !full.contains(&conflict) {
+                        full.push(conflict);
+                    }
+                }
+                out.suspended_conflicts = full;
                 mask = ctx.mask(alpha, &suspended);
                 r = ctx.reasoner(kb, &mask)?;
             }
             _ => {
                 out.kb_consistent = false;
-                out.conflict = conflict;
+                out.conflict = conflict_of(ctx, &mask)?;
                 out.unexplained = ctx.problem.observations.clone();
                 return Ok(());
             }
@@ -622,35 +633,51 @@ fn conflict_of(ctx: &mut Ctx, mask: &[bool]) -> Result<Vec<usize>, Stop> {
     Ok(quickxplain(&items, &mut test)?.unwrap_or_default())
 }
 
-/// The smallest set of defaults (first in axiom order among equals) whose suspension
-/// restores consistency, searched by size up to 3.
-fn diagnose(ctx: &mut Ctx, mask: &[bool], defaults: &[usize]) -> Result<Option<Vec<usize>>, Stop> {
+/// Consistency-based diagnosis (Reiter 1987) over the normal-anatomy defaults: the minimal
+/// conflicts (sets of defaults inconsistent with the rest of the case), then their minimal
+/// hitting sets; the smallest diagnosis is chosen, the first in axiom order among equals.
+/// `None` when the rest is inconsistent without any default. Returns the diagnosis and the
+/// conflicts it resolves.
+fn diagnose(
+    ctx: &mut Ctx,
+    mask: &[bool],
+    defaults: &[usize],
+) -> Result<Option<(Vec<usize>, Vec<Vec<usize>>)>, Stop> {
     let kb = &ctx.problem.kb;
-    let n = defaults.len();
-    let mut combos: Vec<Vec<usize>> = vec![vec![]];
-    for _size in 1..=n.min(3) {
-        let mut next = Vec::new();
-        for c in &combos {
-            let start = c.last().map(|&x| x + 1).unwrap_or(0);
-            for i in start..n {
-                let mut d = c.clone();
-                d.push(i);
-                next.push(d);
-            }
-        }
-        for d in &next {
-            let mut m = mask.to_vec();
-            for &i in d {
-                m[defaults[i]] = false;
-            }
-            let mut rr = ctx.reasoner(kb, &m)?;
-            if ctx.consistent(&mut rr, &[])?.0 {
-                return Ok(Some(d.iter().map(|&i| defaults[i]).collect()));
-            }
-        }
-        combos = next;
+    let mut base = mask.to_vec();
+    for &d in defaults {
+        base[d] = false;
     }
-    Ok(None)
+    let positions: Vec<usize> = (0..defaults.len()).collect();
+    let mut test = |s: &[usize]| -> Result<bool, Limit> {
+        let mut m = base.clone();
+        for &i in s {
+            m[defaults[i]] = true;
+        }
+        let Ok(mut rr) = ctx.reasoner(kb, &m) else {
+            return Ok(true);
+        };
+        Ok(!ctx.consistent(&mut rr, &[])?.0)
+    };
+    if test(&[])? {
+        return Ok(None);
+    }
+    let (conflicts, complete) = all_justifications(&positions, &mut test, 2_000)?;
+    if !complete {
+        return Err(Stop::Limit(Limit::Nodes));
+    }
+    let diagnoses = super::justify::minimal_hitting_sets(&conflicts);
+    let Some(best) = diagnoses
+        .iter()
+        .min_by(|a, b| a.len().cmp(&b.len()).then(a.cmp(b)))
+    else {
+        return Ok(None);
+    };
+    let map = |v: &[usize]| -> Vec<usize> { v.iter().map(|&i| defaults[i]).collect() };
+    Ok(Some((
+        map(best),
+        conflicts.iter().map(|c| map(c)).collect(),
+    )))
 }
 
 /// Abducibles from our annotations: hypothesis classes for the finding individuals, and

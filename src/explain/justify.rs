@@ -1,4 +1,5 @@
-//! Minimal subsets by black-box search: QuickXplain (Junker 2004) finds one, Reiter's
+//! Minimal subsets by black-box search: QuickXplain (Junker 2004) finds one, MergeXplain
+//! (Shchekotykhin, Jannach & Schmitz 2015) finds several in one pass, Reiter's
 //! hitting-set tree (Reiter 1987, with the Greiner, Smith & Wilkerson 1989 correction handled
 //! by closing only on supersets of closed paths) finds all (Kalyanpur et al. 2007).
 
@@ -31,7 +32,7 @@ fn qx(
     if delta && test(background)? {
         return Ok(Vec::new());
     }
-    if cands.len() == 1 {
+    if cands.len() <= 1 {
         return Ok(cands.to_vec());
     }
     let (c1, c2) = cands.split_at(cands.len() / 2);
@@ -40,6 +41,69 @@ fn qx(
     let b2: Vec<usize> = background.iter().chain(&d2).copied().collect();
     let d1 = qx(&b2, !d2.is_empty(), c1, test)?;
     Ok(d1.into_iter().chain(d2).collect())
+}
+
+/// Several minimal subsets of `items` with the (monotone) property, found in one divide-and-
+/// conquer pass (MergeXplain, Shchekotykhin, Jannach & Schmitz, IJCAI 2015): each half is
+/// searched on its own, and conflicts that need both halves are extracted with QuickXplain
+/// until the halves' remainders no longer have the property. Empty when `items` lacks it;
+/// `[[]]` when the empty set has it. Not necessarily all of them: see `all_justifications`.
+pub fn mergexplain(items: &[usize], test: &mut Test) -> Result<Vec<Vec<usize>>, Limit> {
+    if !test(items)? {
+        return Ok(Vec::new());
+    }
+    if test(&[])? {
+        return Ok(vec![Vec::new()]);
+    }
+    let (_, found) = find_conflicts(&[], items, test)?;
+    Ok(sorted(found))
+}
+
+/// MergeXplain's FindConflicts: returns the part of `cands` left without the property
+/// (together with `background`) and the minimal subsets found on the way.
+fn find_conflicts(
+    background: &[usize],
+    cands: &[usize],
+    test: &mut Test,
+) -> Result<(Vec<usize>, Vec<Vec<usize>>), Limit> {
+    let with: Vec<usize> = background.iter().chain(cands).copied().collect();
+    if !test(&with)? {
+        return Ok((cands.to_vec(), Vec::new()));
+    }
+    if cands.len() == 1 {
+        return Ok((Vec::new(), vec![cands.to_vec()]));
+    }
+    let (c1, c2) = cands.split_at(cands.len() / 2);
+    let (mut left, mut found) = find_conflicts(background, c1, test)?;
+    let (right, more) = find_conflicts(background, c2, test)?;
+    found.extend(more);
+    loop {
+        let all: Vec<usize> = background
+            .iter()
+            .chain(&left)
+            .chain(&right)
+            .copied()
+            .collect();
+        if left.is_empty() || !test(&all)? {
+            break;
+        }
+        // A subset that needs items from both halves: its left part first, then its right.
+        let b_right: Vec<usize> = background.iter().chain(&right).copied().collect();
+        let x = qx(&b_right, !right.is_empty(), &left, test)?;
+        let b_x: Vec<usize> = background.iter().chain(&x).copied().collect();
+        let y = qx(&b_x, !x.is_empty(), &right, test)?;
+        let Some(&first) = x.first() else {
+            break;
+        };
+        left.retain(|&i| i != first);
+        let mut gamma: Vec<usize> = x.into_iter().chain(y).collect();
+        gamma.sort_unstable();
+        if !found.contains(&gamma) {
+            found.push(gamma);
+        }
+    }
+    left.extend(right);
+    Ok((left, found))
 }
 
 /// Every minimal subset of `items` with the (monotone) property, by a hitting-set tree over
@@ -81,13 +145,14 @@ pub fn all_justifications(
                     .copied()
                     .filter(|x| removed.binary_search(x).is_err())
                     .collect();
-                let j = quickxplain(&rest, test)?;
-                if let Some(j) = &j
-                    && !found.contains(j)
-                {
-                    found.push(j.clone());
+                // MergeXplain yields several subsets per call; the tree's later nodes reuse them.
+                let js = mergexplain(&rest, test)?;
+                for j in &js {
+                    if !found.contains(j) {
+                        found.push(j.clone());
+                    }
                 }
-                j
+                js.into_iter().next()
             }
         };
         match label {
@@ -180,5 +245,51 @@ mod tests {
         let mut t = |s: &[usize]| -> Result<bool, Limit> { Ok(s.contains(&3) && s.contains(&7)) };
         let items: Vec<usize> = (0..10).collect();
         assert_eq!(quickxplain(&items, &mut t).unwrap(), Some(vec![3, 7]));
+    }
+
+    /// The test "S contains one of these sets" over items 1..=7, counting its calls.
+    fn family_test(
+        family: &[Vec<usize>],
+        calls: &mut usize,
+    ) -> impl FnMut(&[usize]) -> Result<bool, Limit> {
+        move |s: &[usize]| {
+            *calls += 1;
+            Ok(family.iter().any(|f| f.iter().all(|x| s.contains(x))))
+        }
+    }
+
+    #[test]
+    fn mergexplain_finds_minimal_conflicts_in_one_pass() {
+        // Schlobach & Cornet (IJCAI 2003), the MIPS of their example TBox: {1,2},{3,4,5},{4,7}.
+        let mips = vec![vec![1, 2], vec![3, 4, 5], vec![4, 7]];
+        let items: Vec<usize> = (1..=7).collect();
+        let mut calls = 0;
+        let found = mergexplain(&items, &mut family_test(&mips, &mut calls)).unwrap();
+        assert!(!found.is_empty());
+        for f in &found {
+            assert!(mips.contains(f), "{f:?} is not a minimal conflict");
+        }
+        // The halves {1,2,3} and {4,5,6,7} hold {1,2} and {4,7}; MergeXplain returns both
+        // in one pass (Shchekotykhin et al. 2015, the point of the method), and {3,4,5}
+        // across the halves as well.
+        assert!(found.contains(&vec![1, 2]) && found.contains(&vec![4, 7]));
+        let mut calls = 0;
+        assert!(
+            mergexplain(&[3, 5, 6], &mut family_test(&mips, &mut calls))
+                .unwrap()
+                .is_empty()
+        );
+    }
+
+    #[test]
+    fn all_justifications_with_mergexplain_finds_every_mips() {
+        // Schlobach & Cornet (IJCAI 2003): MIPS = {{1,2},{3,4,5},{4,7}}.
+        let mips = vec![vec![1, 2], vec![3, 4, 5], vec![4, 7]];
+        let items: Vec<usize> = (1..=7).collect();
+        let mut calls = 0;
+        let (all, complete) =
+            all_justifications(&items, &mut family_test(&mips, &mut calls), 1_000).unwrap();
+        assert!(complete);
+        assert_eq!(all, vec![vec![1, 2], vec![4, 7], vec![3, 4, 5]]);
     }
 }

@@ -9,7 +9,7 @@ pub mod justify;
 
 pub use abduce::{ExplainOptions, ExplainResult, Explanation, Problem, explain};
 pub use assertion::Assertion;
-pub use justify::{all_justifications, minimal_hitting_sets, quickxplain};
+pub use justify::{all_justifications, mergexplain, minimal_hitting_sets, quickxplain};
 
 /// Our annotation vocabulary's namespace.
 pub const WF: &str = "https://wherefore.example.org/ns/core#";

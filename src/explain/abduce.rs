@@ -633,6 +633,9 @@ fn conflict_of(ctx: &mut Ctx, mask: &[bool]) -> Result<Vec<usize>, Stop> {
     Ok(quickxplain(&items, &mut test)?.unwrap_or_default())
 }
 
+/// Defaults to suspend, and the minimal conflicts among the defaults that they resolve.
+type Diagnosis = (Vec<usize>, Vec<Vec<usize>>);
+
 /// Consistency-based diagnosis (Reiter 1987) over the normal-anatomy defaults: the minimal
 /// conflicts (sets of defaults inconsistent with the rest of the case), then their minimal
 /// hitting sets; the smallest diagnosis is chosen, the first in axiom order among equals.
@@ -642,7 +645,7 @@ fn diagnose(
     ctx: &mut Ctx,
     mask: &[bool],
     defaults: &[usize],
-) -> Result<Option<(Vec<usize>, Vec<Vec<usize>>)>, Stop> {
+) -> Result<Option<Diagnosis>, Stop> {
     let kb = &ctx.problem.kb;
     let mut base = mask.to_vec();
     for &d in defaults {

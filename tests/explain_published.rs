@@ -161,6 +161,67 @@ fn laconic_example_entailment_and_justification() {
 }
 
 #[test]
+fn laconic_justification_drops_superfluous_parts() {
+    // Horridge, Parsia & Sattler (DL 2010): in {A ⊑ ∃R.B, Domain(R, C), C ⊑ D ⊓ E} ⊨ A ⊑ D
+    // the filler B and the conjunct E are superfluous; the laconic justification is
+    // {A ⊑ ∃R.⊤, ∃R.⊤ ⊑ C, C ⊑ D}.
+    let (code, v, err) = run(&[
+        "why",
+        &fixture("laconic.ofn"),
+        "--entailment",
+        "SubClassOf(<http://ex.org/lac#A> <http://ex.org/lac#D>)",
+        "--laconic",
+        "--format",
+        "json",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let lac: Vec<String> = v["results"][0]["laconic"][0]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|x| x.as_str().unwrap().to_string())
+        .collect();
+    let thing = "<http://www.w3.org/2002/07/owl#Thing>";
+    assert_eq!(
+        lac,
+        vec![
+            format!(
+                "SubClassOf(<http://ex.org/lac#A> ObjectSomeValuesFrom(<http://ex.org/lac#R> {thing}))"
+            ),
+            "SubClassOf(<http://ex.org/lac#C> <http://ex.org/lac#D>)".to_string(),
+            format!(
+                "SubClassOf(ObjectSomeValuesFrom(<http://ex.org/lac#R> {thing}) <http://ex.org/lac#C>)"
+            ),
+        ]
+    );
+}
+
+#[test]
+fn laconic_justifications_of_an_unsatisfiable_class() {
+    // Schlobach & Cornet (IJCAI 2003): A1 is unsatisfiable through axioms {1,2} (A1 ⊑ ¬A ⊓ A2,
+    // A2 ⊑ A ⊓ A4). Derived by hand: only A1 ⊑ ¬A, A1 ⊑ A2 and A2 ⊑ A are needed.
+    let (code, v, err) = run(&[
+        "why",
+        &fixture("schlobach-cornet.ofn"),
+        "--unsat",
+        "http://ex.org/sc#A1",
+        "--laconic",
+        "--format",
+        "json",
+    ]);
+    assert_eq!(code, 0, "{err}");
+    let lac = &v["results"][0]["laconic"][0];
+    assert_eq!(
+        lac,
+        &serde_json::json!([
+            "SubClassOf(<http://ex.org/sc#A1> <http://ex.org/sc#A2>)",
+            "SubClassOf(<http://ex.org/sc#A1> ObjectComplementOf(<http://ex.org/sc#A>))",
+            "SubClassOf(<http://ex.org/sc#A2> <http://ex.org/sc#A>)"
+        ])
+    );
+}
+
+#[test]
 fn bad_observations_exit_2() {
     let dir = std::env::temp_dir().join(format!("wf-explain-bad-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();

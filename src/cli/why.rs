@@ -26,6 +26,10 @@ pub struct WhyArgs {
     /// Explain the inconsistency of the KB.
     #[arg(long)]
     pub inconsistent: bool,
+    /// Also give a laconic form of each justification: its axioms cut down to the parts the
+    /// entailment needs (Horridge, Parsia & Sattler 2008).
+    #[arg(long)]
+    pub laconic: bool,
     /// Largest number of hitting-set tree nodes per target (exit code 3 when reached).
     #[arg(long = "max-nodes", default_value_t = 2_000)]
     pub max_nodes: usize,
@@ -55,7 +59,36 @@ enum Target {
 struct Justified {
     target: String,
     justifications: Vec<Vec<usize>>,
+    /// With `--laconic`: per justification, its laconic axioms (functional syntax).
+    laconic: Vec<Vec<String>>,
     complete: bool,
+}
+
+/// Whether the reasoner's axioms entail every target.
+fn target_holds(r: &mut Reasoner, ts: &[Target]) -> Result<bool, Limit> {
+    for t in ts {
+        let a = match *t {
+            Target::Subsumption(c, d) => r.is_subsumed(c, d),
+            Target::Instance(c, a) => r.entails_class_assertion(c, a),
+            Target::Role(p, a, b) => r.entails_role_assertion(p, a, b),
+            Target::Unsat(c) => match r.is_satisfiable(c) {
+                Answer::Yes => Answer::No,
+                Answer::No => Answer::Yes,
+                u => u,
+            },
+            Target::Inconsistent => match r.is_consistent() {
+                Answer::Yes => Answer::No,
+                Answer::No => Answer::Yes,
+                u => u,
+            },
+        };
+        match a {
+            Answer::Yes => {}
+            Answer::No => return Ok(false),
+            Answer::Unknown(l) => return Err(l),
+        }
+    }
+    Ok(true)
 }
 
 /// Runs `why` and returns the exit code.
@@ -135,30 +168,19 @@ pub fn run(args: WhyArgs) -> i32 {
             Err(_) => return Ok(false),
         };
         r.limits = limits.clone();
-        for t in ts {
-            let a = match *t {
-                Target::Subsumption(c, d) => r.is_subsumed(c, d),
-                Target::Instance(c, a) => r.entails_class_assertion(c, a),
-                Target::Role(p, a, b) => r.entails_role_assertion(p, a, b),
-                Target::Unsat(c) => match r.is_satisfiable(c) {
-                    Answer::Yes => Answer::No,
-                    Answer::No => Answer::Yes,
-                    u => u,
-                },
-                Target::Inconsistent => match r.is_consistent() {
-                    Answer::Yes => Answer::No,
-                    Answer::No => Answer::Yes,
-                    u => u,
-                },
-            };
-            match a {
-                Answer::Yes => {}
-                Answer::No => return Ok(false),
-                Answer::Unknown(l) => return Err(l),
-            }
-        }
-        Ok(true)
+        target_holds(&mut r, ts)
     };
+    // The same test over explicit axioms (laconic pieces), none of the KB's own.
+    let holds_axioms =
+        |kb: &KnowledgeBase, axioms: &[Axiom], ts: &[Target]| -> Result<bool, Limit> {
+            let none = vec![false; kb.axioms.len()];
+            let mut r = match Reasoner::with_axioms(kb, Some(&none), axioms) {
+                Ok(r) => r,
+                Err(_) => return Ok(false),
+            };
+            r.limits = limits.clone();
+            target_holds(&mut r, ts)
+        };
     // The whole KB must be supported by the reasoner.
     if let Err(r) = Reasoner::new(&kb) {
         eprintln!("error: {}", refusal_message(&kb, &r, &args.kb));
@@ -219,16 +241,45 @@ pub fn run(args: WhyArgs) -> i32 {
     for (name, ts) in &targets {
         let mut test = |s: &[usize]| holds(&kb, s, ts);
         match all_justifications(&items, &mut test, args.max_nodes) {
-            Ok((js, complete)) => results.push(Justified {
-                target: name.clone(),
-                justifications: js,
-                complete,
-            }),
+            Ok((js, complete)) => {
+                let mut laconic = Vec::new();
+                if args.laconic {
+                    for j in &js {
+                        let axioms: Vec<usize> = j
+                            .iter()
+                            .flat_map(|s| by_source[s].iter().copied())
+                            .collect();
+                        let mut t = |k: &KnowledgeBase, a: &[Axiom]| holds_axioms(k, a, ts);
+                        match crate::explain::laconic::laconic(&kb, &axioms, &mut t) {
+                            Ok(l) => {
+                                let mut v: Vec<String> = l
+                                    .axioms
+                                    .iter()
+                                    .map(|a| crate::explain::laconic::axiom_ofn(&l.kb, a))
+                                    .collect();
+                                v.sort();
+                                laconic.push(v);
+                            }
+                            Err(l) => {
+                                limit_hit = Some(l);
+                                laconic.push(Vec::new());
+                            }
+                        }
+                    }
+                }
+                results.push(Justified {
+                    target: name.clone(),
+                    justifications: js,
+                    laconic,
+                    complete,
+                })
+            }
             Err(l) => {
                 limit_hit = Some(l);
                 results.push(Justified {
                     target: name.clone(),
                     justifications: vec![],
+                    laconic: vec![],
                     complete: false,
                 });
             }
@@ -242,13 +293,17 @@ pub fn run(args: WhyArgs) -> i32 {
                 .iter()
                 .map(|r| {
                     let repairs = minimal_hitting_sets(&r.justifications);
-                    serde_json::json!({
+                    let mut v = serde_json::json!({
                         "target": r.target,
                         "entailed": !r.justifications.is_empty(),
                         "complete": r.complete,
                         "justifications": r.justifications.iter().map(|j| j.iter().map(|&s| text_of(s)).collect::<Vec<_>>()).collect::<Vec<_>>(),
                         "repairs": repairs.iter().map(|j| j.iter().map(|&s| text_of(s)).collect::<Vec<_>>()).collect::<Vec<_>>(),
-                    })
+                    });
+                    if args.laconic {
+                        v["laconic"] = serde_json::json!(r.laconic);
+                    }
+                    v
                 })
                 .collect();
             let mut out = serde_json::json!({ "results": v });
@@ -284,6 +339,12 @@ pub fn run(args: WhyArgs) -> i32 {
                     println!("  Justification {}:", n + 1);
                     for (k, &s) in j.iter().enumerate() {
                         println!("    {}. {}", k + 1, text_of(s));
+                    }
+                    if let Some(l) = r.laconic.get(n) {
+                        println!("    Laconic (only the parts needed):");
+                        for (k, a) in l.iter().enumerate() {
+                            println!("      {}. {a}", k + 1);
+                        }
                     }
                 }
                 let repairs = minimal_hitting_sets(&r.justifications);

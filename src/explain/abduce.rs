@@ -641,11 +641,7 @@ type Diagnosis = (Vec<usize>, Vec<Vec<usize>>);
 /// hitting sets; the smallest diagnosis is chosen, the first in axiom order among equals.
 /// `None` when the rest is inconsistent without any default. Returns the diagnosis and the
 /// conflicts it resolves.
-fn diagnose(
-    ctx: &mut Ctx,
-    mask: &[bool],
-    defaults: &[usize],
-) -> Result<Option<Diagnosis>, Stop> {
+fn diagnose(ctx: &mut Ctx, mask: &[bool], defaults: &[usize]) -> Result<Option<Diagnosis>, Stop> {
     let kb = &ctx.problem.kb;
     let mut base = mask.to_vec();
     for &d in defaults {

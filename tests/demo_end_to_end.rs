@@ -133,5 +133,36 @@ fn demo_is_complete_deterministic_and_cautious() {
             .unwrap()
             .contains("PerivascularNodalMass")
     );
+    // `explain --facts` runs the same pipeline as the report: the same ranked explanations.
+    let kb = ["ontologies/spatial.ofn", "ontologies/abdomen.ofn"];
+    let facts = a.join("01-deep-liver-lesion").join("facts.json");
+    let out = Command::new(env!("CARGO_BIN_EXE_wherefore"))
+        .args(["explain", kb[0], kb[1], "--facts", facts.to_str().unwrap()])
+        .args(["--format", "json"])
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(0));
+    let v: Value = serde_json::from_slice(&out.stdout).unwrap();
+    let from_explain: Vec<&Value> = v["explanations"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|e| &e["assertions"])
+        .collect();
+    let r = report(&a, "01-deep-liver-lesion");
+    let from_report: Vec<&Value> = r["explanations"]
+        .as_array()
+        .unwrap()
+        .iter()
+        .map(|e| &e["assertions"])
+        .collect();
+    assert_eq!(from_explain, from_report);
+    let out = Command::new(env!("CARGO_BIN_EXE_wherefore"))
+        .args(["explain", kb[0], kb[1], "--facts", facts.to_str().unwrap()])
+        .args(["--alpha", "1.5"])
+        .output()
+        .unwrap();
+    assert_eq!(out.status.code(), Some(2));
+    assert!(String::from_utf8_lossy(&out.stderr).contains("--alpha"));
     let _ = std::fs::remove_dir_all(&base);
 }

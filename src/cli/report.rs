@@ -29,6 +29,8 @@ pub enum ReportFormat {
     Md,
     /// Self-contained HTML draft.
     Html,
+    /// HL7 FHIR R4 DiagnosticReport (JSON), status preliminary.
+    Fhir,
 }
 
 /// Arguments of `wherefore report`.
@@ -111,6 +113,7 @@ pub fn run(args: ReportArgs) -> i32 {
         ReportFormat::Json => serde_json::to_string_pretty(&report).unwrap_or_default() + "\n",
         ReportFormat::Md => render::markdown(&report),
         ReportFormat::Html => render::html::page(&report, &[]),
+        ReportFormat::Fhir => render::fhir::diagnostic_report(&report),
         ReportFormat::Text => match args.register {
             Some(Register::Clinician) => report.registers.clinician.clone(),
             Some(Register::Patient) => report.registers.patient.clone(),

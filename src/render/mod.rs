@@ -1,6 +1,7 @@
 //! Verbalising results in three registers (clinician, patient, formal) and writing report
 //! drafts (Markdown, self-contained HTML, JSON). The same values feed every format.
 
+pub mod fhir;
 pub mod html;
 pub mod readability;
 pub mod words;
@@ -59,6 +60,25 @@ pub struct Abnormality {
     pub contradicted_by: Vec<String>,
 }
 
+/// One finding (a lesion) as measured, for structured outputs.
+#[derive(Clone, Debug, Serialize)]
+pub struct ReportFinding {
+    /// Individual id from the label table.
+    pub id: String,
+    /// Its class in the clinician's words.
+    pub label: String,
+    /// Volume, mL.
+    pub volume_ml: f64,
+    /// Largest diameter, mm.
+    pub largest_diameter_mm: f64,
+    /// Centroid, RAS mm.
+    pub centroid_mm: [f64; 3],
+    /// The relations the clinician register lists, in its words, with their degrees.
+    pub relations: Vec<(String, f64)>,
+    /// Ranks of the explanations that name this finding.
+    pub explained_by: Vec<usize>,
+}
+
 /// A report draft for one case.
 #[derive(Clone, Debug, Serialize)]
 pub struct Report {
@@ -68,6 +88,8 @@ pub struct Report {
     pub caution: String,
     /// The three registers.
     pub registers: Registers,
+    /// The findings as measured.
+    pub findings: Vec<ReportFinding>,
     /// Ranked explanations.
     pub explanations: Vec<ReportExplanation>,
     /// Observations no explanation accounts for (functional syntax).
@@ -167,6 +189,41 @@ pub fn build(input: &ReportInput) -> Report {
             }
         })
         .collect();
+    let mut findings = Vec::new();
+    for ind in &input.facts.individuals {
+        let Some(&a) = input.abox.individuals.get(&ind.id) else {
+            continue;
+        };
+        if !input.abox.findings.contains(&a) {
+            continue;
+        }
+        let relations = shown_relations(input, &ind.id)
+            .iter()
+            .map(|r| {
+                (
+                    w.relation(&r.relation, &r.subject, &r.object, false),
+                    r.degree,
+                )
+            })
+            .collect();
+        let explained_by = input
+            .result
+            .explanations
+            .iter()
+            .enumerate()
+            .filter(|(_, e)| e.assertions.iter().any(|x| x.individuals().contains(&a)))
+            .map(|(i, _)| i + 1)
+            .collect();
+        findings.push(ReportFinding {
+            id: ind.id.clone(),
+            label: w.class_label(&ind.class, false),
+            volume_ml: ind.volume_ml,
+            largest_diameter_mm: ind.largest_diameter_mm,
+            centroid_mm: ind.centroid_mm,
+            relations,
+            explained_by,
+        });
+    }
     let clinician = clinician_text(input, &mut w, &explanations, &abnormalities);
     let patient = patient_text(input, &mut w, &abnormalities);
     let formal = formal_text(input, &explanations);
@@ -180,6 +237,7 @@ pub fn build(input: &ReportInput) -> Report {
             patient,
             formal,
         },
+        findings,
         explanations,
         unexplained,
         abnormalities,
@@ -187,6 +245,19 @@ pub fn build(input: &ReportInput) -> Report {
         complete: input.result.complete,
         plain_label_gaps: gaps,
     }
+}
+
+/// The relations of a finding that the clinician register lists: at or above the α-cut,
+/// not disconnection or `far`, directional ones only when clear (0.7), at most eight.
+fn shown_relations<'f>(input: &ReportInput<'f>, id: &str) -> Vec<&'f crate::facts::Relation> {
+    let mut rels = relations_of(input.facts, id, |r| {
+        r.degree >= input.alpha
+            && r.relation != "rcc8_DC"
+            && r.relation != "far"
+            && (!is_directional(&r.relation) || r.degree >= 0.7)
+    });
+    rels.truncate(8);
+    rels
 }
 
 /// The relations of a subject that pass a filter, strongest first (then by object).
@@ -254,13 +325,7 @@ fn clinician_text(
             ind.centroid_mm[1],
             ind.centroid_mm[2]
         );
-        let rels = relations_of(input.facts, &ind.id, |r| {
-            r.degree >= input.alpha
-                && r.relation != "rcc8_DC"
-                && r.relation != "far"
-                && (!is_directional(&r.relation) || r.degree >= 0.7)
-        });
-        for r in rels.iter().take(8) {
+        for r in shown_relations(input, &ind.id) {
             let _ = writeln!(
                 s,
                 "  - {} ({:.2}, {})",

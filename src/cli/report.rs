@@ -4,7 +4,9 @@ use super::common::{KbOptions, load_kb, write_atomic};
 use crate::kb::KnowledgeBase;
 use crate::render;
 use clap::{Args, ValueEnum};
+use rayon::prelude::*;
 use serde::Deserialize;
+use std::io::IsTerminal;
 use std::path::{Path, PathBuf};
 
 /// The register of text output.
@@ -66,6 +68,9 @@ pub struct ReportArgs {
     /// Redo cases whose outputs are newer than their inputs.
     #[arg(long)]
     pub force: bool,
+    /// Cases run at once in a batch (0: one per core).
+    #[arg(long, default_value_t = 0)]
+    pub jobs: usize,
     #[command(flatten)]
     kb_opts: KbOptions,
 }
@@ -175,48 +180,148 @@ fn batch(args: &ReportArgs, kb: &KnowledgeBase, manifest: &Path) -> i32 {
         },
     };
     let base = manifest.parent().unwrap_or(Path::new("."));
-    let mut failed = 0;
-    let mut done = 0;
-    let mut skipped = 0;
-    for (k, c) in m.case.iter().enumerate() {
-        if k % shards != shard - 1 {
-            continue;
-        }
-        if c.id.is_empty() || c.id.contains(['/', '\\']) || c.id.starts_with('.') {
-            eprintln!("case {:?}: the id must be a plain folder name", c.id);
-            failed += 1;
-            continue;
-        }
-        let dir = out.join(&c.id);
-        let inputs: Vec<PathBuf> = c
-            .facts
-            .iter()
-            .chain(c.maps.iter().flatten())
-            .chain(c.labels.iter())
-            .map(|p| base.join(p))
-            .collect();
-        let target = dir.join("report.json");
-        if !args.force && is_fresh(&target, &inputs) {
-            skipped += 1;
-            println!("{}: up to date, skipped", c.id);
-            continue;
-        }
-        match run_case(kb, c, base, &dir, args) {
-            Ok(()) => {
-                done += 1;
-                println!("{}: ok", c.id);
-            }
-            Err(e) => {
-                failed += 1;
-                eprintln!("{}: FAILED: {e}", c.id);
-            }
+    let selected: Vec<&ManifestCase> = m
+        .case
+        .iter()
+        .enumerate()
+        .filter(|(k, _)| k % shards == shard - 1)
+        .map(|(_, c)| c)
+        .collect();
+    let mut seen = std::collections::BTreeSet::new();
+    for c in &selected {
+        if !seen.insert(c.id.as_str()) {
+            return bad(format!(
+                "{}: case id {:?} appears twice; ids name output folders and must be unique",
+                manifest.display(),
+                c.id
+            ));
         }
     }
-    println!("{done} done, {skipped} skipped, {failed} failed (shard {shard}/{shards})");
+    let progress = if std::io::stderr().is_terminal() {
+        let pb = indicatif::ProgressBar::new(selected.len() as u64);
+        pb.set_style(
+            indicatif::ProgressStyle::with_template(
+                "{bar:40} {pos}/{len} cases, {elapsed} (eta {eta})",
+            )
+            .unwrap_or_else(|_| indicatif::ProgressStyle::default_bar()),
+        );
+        Some(pb)
+    } else {
+        None
+    };
+    let one = |c: &ManifestCase| -> CaseOutcome {
+        let t = std::time::Instant::now();
+        let status = if c.id.is_empty() || c.id.contains(['/', '\\']) || c.id.starts_with('.') {
+            Err("the id must be a plain folder name".to_string())
+        } else {
+            let dir = out.join(&c.id);
+            let inputs: Vec<PathBuf> = c
+                .facts
+                .iter()
+                .chain(c.maps.iter().flatten())
+                .chain(c.labels.iter())
+                .map(|p| base.join(p))
+                .collect();
+            if !args.force && is_fresh(&dir.join("report.json"), &inputs) {
+                Ok(None)
+            } else {
+                run_case(kb, c, base, &dir, args).map(Some)
+            }
+        };
+        let o = CaseOutcome {
+            id: c.id.clone(),
+            status,
+            secs: t.elapsed().as_secs_f64(),
+        };
+        let line = o.line();
+        match &progress {
+            Some(pb) => {
+                if o.status.is_err() {
+                    pb.println(&line);
+                }
+                pb.inc(1);
+            }
+            None => eprintln!("{line}"),
+        }
+        o
+    };
+    let run_all = || -> Vec<CaseOutcome> { selected.par_iter().map(|c| one(c)).collect() };
+    let outcomes = if args.jobs > 0 {
+        match rayon::ThreadPoolBuilder::new()
+            .num_threads(args.jobs)
+            .build()
+        {
+            Ok(pool) => pool.install(run_all),
+            Err(e) => {
+                return bad(format!(
+                    "--jobs {}: cannot start the threads: {e}",
+                    args.jobs
+                ));
+            }
+        }
+    } else {
+        run_all()
+    };
+    if let Some(pb) = &progress {
+        pb.finish_and_clear();
+    }
+    // The closing table, in manifest order.
+    let width = outcomes
+        .iter()
+        .map(|o| o.id.len())
+        .max()
+        .unwrap_or(4)
+        .max(4);
+    println!(
+        "{:<width$}  {:<8}  {:>12}  {:>8}",
+        "case", "status", "explanations", "seconds"
+    );
+    let (mut done, mut skipped, mut failed) = (0, 0, 0);
+    for o in &outcomes {
+        let (status, n) = match &o.status {
+            Ok(Some(n)) => {
+                done += 1;
+                ("ok", n.to_string())
+            }
+            Ok(None) => {
+                skipped += 1;
+                ("skipped", "-".to_string())
+            }
+            Err(_) => {
+                failed += 1;
+                ("FAILED", "-".to_string())
+            }
+        };
+        println!(
+            "{:<width$}  {:<8}  {:>12}  {:>8.2}",
+            o.id, status, n, o.secs
+        );
+    }
+    println!(
+        "{done} done, {skipped} skipped (up to date), {failed} failed (shard {shard}/{shards})"
+    );
     if failed > 0 {
         super::EXIT_BAD_INPUT
     } else {
         super::EXIT_OK
+    }
+}
+
+/// What became of one case of a batch.
+struct CaseOutcome {
+    id: String,
+    /// Number of explanations written, `None` when skipped as up to date, or the error.
+    status: Result<Option<usize>, String>,
+    secs: f64,
+}
+
+impl CaseOutcome {
+    fn line(&self) -> String {
+        match &self.status {
+            Ok(Some(n)) => format!("{}: ok, {n} explanation(s), {:.2} s", self.id, self.secs),
+            Ok(None) => format!("{}: up to date, skipped", self.id),
+            Err(e) => format!("{}: FAILED: {e}", self.id),
+        }
     }
 }
 
@@ -238,7 +343,7 @@ fn run_case(
     base: &Path,
     dir: &Path,
     args: &ReportArgs,
-) -> Result<(), String> {
+) -> Result<usize, String> {
     let facts = match (&c.facts, &c.maps, &c.labels) {
         (Some(f), None, None) => crate::facts::read_facts(&base.join(f))?,
         (None, Some(maps), Some(labels)) => {
@@ -274,5 +379,5 @@ fn run_case(
         "report.json",
         (serde_json::to_string_pretty(&report).unwrap_or_default() + "\n").as_bytes(),
     )?;
-    Ok(())
+    Ok(report.explanations.len())
 }

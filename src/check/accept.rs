@@ -35,6 +35,47 @@ fn string_array(items: &[String], like: Option<&Array>) -> Array {
     a
 }
 
+fn split_first_line(s: &str) -> (&str, &str) {
+    match s.find('\n') {
+        Some(i) => (&s[..=i], &s[i + 1..]),
+        None => (s, ""),
+    }
+}
+
+/// Removes element `i` of an array with the comment on its own line, keeping the comment
+/// that ends the line before it (in `toml_edit` that comment is part of the removed
+/// element's prefix, and the removed element's own trailing comment is part of the next
+/// element's prefix or of the array's trailing text).
+fn remove_keeping_comments(a: &mut Array, i: usize) -> Value {
+    let own = a
+        .get(i)
+        .and_then(|v| v.decor().prefix())
+        .and_then(|p| p.as_str())
+        .unwrap_or("")
+        .to_string();
+    let removed = a.remove(i);
+    let (head, _) = split_first_line(&own);
+    if let Some(next) = a.get_mut(i) {
+        let p = next
+            .decor()
+            .prefix()
+            .and_then(|p| p.as_str())
+            .unwrap_or("")
+            .to_string();
+        let (_, tail) = split_first_line(&p);
+        if p.contains('\n') {
+            next.decor_mut().set_prefix(format!("{head}{tail}"));
+        }
+    } else {
+        let t = a.trailing().as_str().unwrap_or("").to_string();
+        if t.contains('\n') {
+            let (_, tail) = split_first_line(&t);
+            a.set_trailing(format!("{head}{tail}"));
+        }
+    }
+    removed
+}
+
 fn keep_decor(old: &Value, mut new: Value) -> Value {
     *new.decor_mut() = old.decor().clone();
     new
@@ -79,7 +120,7 @@ fn apply(expect: &mut dyn toml_edit::TableLike, key: &str, fix: &Fix) -> Result<
                 .ok_or_else(missing)?;
             for &i in idx.iter().rev() {
                 if i < a.len() {
-                    a.remove(i);
+                    remove_keeping_comments(a, i);
                 }
             }
         }
@@ -91,7 +132,7 @@ fn apply(expect: &mut dyn toml_edit::TableLike, key: &str, fix: &Fix) -> Result<
             let mut moved = Vec::new();
             for &i in items.iter().rev() {
                 if i < a.len() {
-                    moved.push(a.remove(i));
+                    moved.push(remove_keeping_comments(a, i));
                 }
             }
             moved.reverse();
@@ -135,7 +176,7 @@ fn apply(expect: &mut dyn toml_edit::TableLike, key: &str, fix: &Fix) -> Result<
                     }
                     None => {
                         if i < a.len() {
-                            a.remove(i);
+                            remove_keeping_comments(a, i);
                         }
                     }
                 }

@@ -258,26 +258,22 @@ fn case_kb(c: &CaseSpec, kb: &KnowledgeBase, want_problem: bool) -> Result<CaseK
     let mut kb = kb.clone();
     let mut abox = CaseAbox::default();
     let mut problem = None;
-    if let Input::Assertions { text, line } = &c.input {
-        let origin = format!("{} (assertions of case {:?})", at(c, *line), c.name);
-        let doc = format!("{}{text}", prefix_header(&c.prefixes));
-        // The case may introduce its own individuals: intern them first so that they count
-        // as known; classes and properties must come from the KB.
-        let mut scratch = kb.clone();
-        let m0 = Mark::of(&scratch);
-        owl::load_axioms_text(&mut scratch, &origin, &doc)
-            .map_err(|e| CheckError(e.to_string()))?;
-        for i in m0.individuals..scratch.vocab.individuals.len() {
-            let iri = scratch
-                .vocab
-                .individual_iri(crate::kb::IndividualId(i as u32))
-                .to_string();
-            kb.vocab.individual(&iri);
-        }
+    abox.first_axiom = kb.axioms.len();
+    if let Some(bg) = &c.background {
+        let origin = format!("{} (background of case {:?})", at(c, bg.line), c.name);
+        let doc = format!("{}{}", prefix_header(&c.prefixes), bg.text);
+        intern_individuals(&mut kb, &origin, &doc)?;
         let mark = Mark::of(&kb);
         owl::load_axioms_text(&mut kb, &origin, &doc).map_err(|e| CheckError(e.to_string()))?;
         unknown_vocab(&kb, mark, &origin, "")?;
-        abox.first_axiom = mark.axioms;
+    }
+    if let Input::Assertions { text, line } = &c.input {
+        let origin = format!("{} (assertions of case {:?})", at(c, *line), c.name);
+        let doc = format!("{}{text}", prefix_header(&c.prefixes));
+        intern_individuals(&mut kb, &origin, &doc)?;
+        let mark = Mark::of(&kb);
+        owl::load_axioms_text(&mut kb, &origin, &doc).map_err(|e| CheckError(e.to_string()))?;
+        unknown_vocab(&kb, mark, &origin, "")?;
         if want_problem {
             problem = Some(observations_problem(
                 kb.clone(),
@@ -300,6 +296,22 @@ fn case_kb(c: &CaseSpec, kb: &KnowledgeBase, want_problem: bool) -> Result<CaseK
         facts: empty_facts(),
         abox,
     })
+}
+
+/// Interns the individuals a case's text introduces, so that they count as known; classes
+/// and properties must come from the KB.
+fn intern_individuals(kb: &mut KnowledgeBase, origin: &str, doc: &str) -> Result<(), CheckError> {
+    let mut scratch = kb.clone();
+    let m0 = Mark::of(&scratch);
+    owl::load_axioms_text(&mut scratch, origin, doc).map_err(|e| CheckError(e.to_string()))?;
+    for i in m0.individuals..scratch.vocab.individuals.len() {
+        let iri = scratch
+            .vocab
+            .individual_iri(crate::kb::IndividualId(i as u32))
+            .to_string();
+        kb.vocab.individual(&iri);
+    }
+    Ok(())
 }
 
 /// An error when text added after `mark` named a class, property or individual the KB does
@@ -528,7 +540,12 @@ fn evaluate(
                 if ok {
                     actual.push(short(text));
                 } else {
-                    actual.push(format!("{word}: {}", short(text)));
+                    let why = if cons == Answer::No {
+                        " (the KB with the case is inconsistent, so it entails everything)"
+                    } else {
+                        ""
+                    };
+                    actual.push(format!("{word}{why}: {}", short(text)));
                     if !matches!(a, Answer::Unknown(_)) {
                         wrong.push(n);
                     }

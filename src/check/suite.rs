@@ -136,6 +136,8 @@ pub struct CaseSpec {
     pub kb_line: usize,
     /// The input.
     pub input: Input,
+    /// Background assertions (functional syntax) added to the KB, not explained.
+    pub background: Option<Item1>,
     /// Abducibles file, resolved.
     pub abducibles: Option<PathBuf>,
     /// α-cut for graded facts.
@@ -336,6 +338,7 @@ const CASE_KEYS: &[&str] = &[
     "maps",
     "labels",
     "assertions",
+    "background",
     "abducibles",
     "alpha",
     "max_size",
@@ -439,6 +442,13 @@ pub fn parse_file(file: &Path, text: &str, suite: &mut Suite) -> Result<(), Chec
                 ));
             }
         };
+        let background = cx.string(t, "background")?;
+        if background.is_some() && matches!(input, Input::Facts(_) | Input::Maps { .. }) {
+            return Err(cx.err(
+                cx.key_line(t, "background"),
+                "`background` goes with `assertions` (or alone); a facts input carries its own",
+            ));
+        }
         let abducibles = cx.string(t, "abducibles")?.map(|a| base.join(&a.text));
         let alpha = match t.get("alpha") {
             None => 0.5,
@@ -474,6 +484,7 @@ pub fn parse_file(file: &Path, text: &str, suite: &mut Suite) -> Result<(), Chec
             kb: kb.iter().map(|k| base.join(&k.text)).collect(),
             kb_line,
             input,
+            background,
             abducibles,
             alpha,
             max_size,

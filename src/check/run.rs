@@ -608,10 +608,16 @@ fn evaluate(
         order_checks(c, &mut checks);
         return Ok((checks, outcome));
     };
+    // Justifications only feed the report's texts.
+    let justify = c
+        .expect
+        .iter()
+        .any(|e| matches!(e.expect, Expect::Contains(..) | Expect::Lacks(..)));
     let eo = ExplainOptions {
         alpha: c.alpha,
         max_size: c.max_size,
         limits,
+        justify,
         ..Default::default()
     };
     let result = explain(problem, &eo).map_err(|r| {

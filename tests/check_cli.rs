@@ -587,3 +587,40 @@ fn the_readme_example_runs_and_passes() {
         text(&o)
     );
 }
+
+#[test]
+fn a_reached_limit_is_exit_code_3_and_named() {
+    // Contract: exit code 3 when a resource limit was reached. Jack and Jill's KB has two
+    // individuals, so its consistency test needs two completion-graph nodes.
+    let o = wherefore(&[
+        "check",
+        fixtures().join("small").to_str().unwrap(),
+        "--max-graph-nodes",
+        "1",
+    ]);
+    assert_eq!(o.status.code(), Some(3), "{}", text(&o));
+    assert!(
+        text(&o).contains("node limit of the completion graph reached"),
+        "{}",
+        text(&o)
+    );
+}
+
+#[test]
+fn a_missing_facts_file_names_the_case() {
+    let (p, o) = bad_case(
+        "missing-facts",
+        "[[case]]\nname = \"a\"\nkb = [\"KB\"]\nfacts = \"nowhere.json\"\n[case.expect]\ntop = []\n",
+    );
+    assert_eq!(o.status.code(), Some(2), "{}", text(&o));
+    assert!(
+        text(&o).contains(&format!("{}:1: case \"a\"", p.display())),
+        "{}",
+        text(&o)
+    );
+    assert!(
+        text(&o).contains("nowhere.json: cannot read"),
+        "{}",
+        text(&o)
+    );
+}

@@ -109,6 +109,8 @@ pub struct Outcome {
     pub unexplained: Vec<String>,
     /// Suspended defaults.
     pub abnormalities: Vec<String>,
+    /// The resource limit that left a question undecided, if any.
+    pub limit: Option<String>,
 }
 
 /// A case's result.
@@ -223,9 +225,12 @@ fn at(c: &CaseSpec, line: usize) -> String {
 
 /// Builds the case's KB and, when asked, its abduction problem.
 fn case_kb(c: &CaseSpec, kb: &KnowledgeBase, want_problem: bool) -> Result<CaseKb, CheckError> {
+    let here = |e: String| CheckError(format!("{}: case {:?}: {e}", at(c, c.line), c.name));
     let facts = match &c.input {
-        Input::Facts(p) => Some(crate::facts::read_facts(p)?),
-        Input::Maps { maps, labels } => Some(crate::facts::from_label_maps(maps, labels)?),
+        Input::Facts(p) => Some(crate::facts::read_facts(p).map_err(here)?),
+        Input::Maps { maps, labels } => {
+            Some(crate::facts::from_label_maps(maps, labels).map_err(here)?)
+        }
         _ => None,
     };
     if let Some(facts) = facts {
@@ -236,7 +241,8 @@ fn case_kb(c: &CaseSpec, kb: &KnowledgeBase, want_problem: bool) -> Result<CaseK
         let mut case = case_problem(kb, &facts, &file);
         if let Some(p) = &c.abducibles {
             let individuals: Vec<_> = case.abox.individuals.values().copied().collect();
-            case.problem.abducibles = read_abducibles(&mut case.problem.kb, p, &individuals)?;
+            case.problem.abducibles =
+                read_abducibles(&mut case.problem.kb, p, &individuals).map_err(here)?;
         }
         let enabled = case.problem.degrees.iter().map(|&d| d >= c.alpha).collect();
         let problem = (!case.problem.observations.is_empty()).then(|| case.problem.clone());
@@ -275,12 +281,10 @@ fn case_kb(c: &CaseSpec, kb: &KnowledgeBase, want_problem: bool) -> Result<CaseK
         owl::load_axioms_text(&mut kb, &origin, &doc).map_err(|e| CheckError(e.to_string()))?;
         unknown_vocab(&kb, mark, &origin, "")?;
         if want_problem {
-            problem = Some(observations_problem(
-                kb.clone(),
-                mark,
-                &origin,
-                c.abducibles.as_deref(),
-            )?);
+            problem = Some(
+                observations_problem(kb.clone(), mark, &origin, c.abducibles.as_deref())
+                    .map_err(here)?,
+            );
         }
     } else if want_problem {
         return Err(CheckError(format!(
@@ -505,6 +509,9 @@ fn evaluate(
         })?;
         r.limits = limits.clone();
         let cons = r.is_consistent();
+        if let Answer::Unknown(l) = cons {
+            outcome.limit = Some(l.to_string());
+        }
         outcome.consistent = Some(answer_word(cons, "consistent", "inconsistent"));
         for e in &c.expect {
             if let Expect::Consistent(b) = e.expect {
@@ -533,6 +540,9 @@ fn evaluate(
                     Axiom::SubClass(x, y) => r.is_subsumed(x, y),
                     _ => Answer::No,
                 };
+                if let Answer::Unknown(l) = a {
+                    outcome.limit = Some(l.to_string());
+                }
                 let word = answer_word(a, "entailed", "not entailed");
                 outcome.entailments.insert(text.clone(), word.clone());
                 let ok = a == if positive { Answer::Yes } else { Answer::No };
@@ -572,6 +582,9 @@ fn evaluate(
             for (n, (k, text)) in v.iter().enumerate() {
                 let atom = r.concepts_mut().atom(*k);
                 let a = r.is_satisfiable(atom);
+                if let Answer::Unknown(l) = a {
+                    outcome.limit = Some(l.to_string());
+                }
                 let word = answer_word(a, "satisfiable", "unsatisfiable");
                 outcome.satisfiability.insert(text.clone(), word.clone());
                 let ok = a == if positive { Answer::Yes } else { Answer::No };
@@ -627,6 +640,9 @@ fn evaluate(
             crate::cli::common::refusal_message(&problem.kb, &r, &c.kb)
         ))
     })?;
+    if let Some(l) = result.limit {
+        outcome.limit = Some(l.to_string());
+    }
     let pkb = &problem.kb;
     let ranked: Vec<Vec<String>> = result
         .explanations

@@ -32,6 +32,13 @@ pub struct CheckArgs {
     /// Time limit in seconds per case (the case then fails as undecided).
     #[arg(long, value_name = "SECONDS", default_value_t = 120.0)]
     pub timeout: f64,
+    /// Largest number of completion-graph nodes in one test (exit code 3 when reached).
+    #[arg(
+        long = "max-graph-nodes",
+        value_name = "N",
+        default_value_t = 1_000_000
+    )]
+    pub max_graph_nodes: usize,
     /// Folder searched for imported ontologies.
     #[arg(long = "import-dir", value_name = "DIR")]
     pub import_dirs: Vec<PathBuf>,
@@ -70,6 +77,7 @@ pub fn run(args: CheckArgs) -> i32 {
         import_dirs: args.import_dirs.clone(),
         explain_always: !args.baseline.is_empty(),
         timeout: Duration::from_secs_f64(args.timeout.min(1e6)),
+        max_graph_nodes: args.max_graph_nodes,
         ..Default::default()
     };
     let replace = if args.baseline.is_empty() {
@@ -114,6 +122,20 @@ pub fn run(args: CheckArgs) -> i32 {
     if errors > 0 {
         eprintln!("error: {errors} case(s) could not run; fix them (messages above) and run again");
         return super::EXIT_BAD_INPUT;
+    }
+    let limited: Vec<&check::CaseResult> = results
+        .iter()
+        .filter(|r| r.outcome.limit.is_some())
+        .collect();
+    if !limited.is_empty() {
+        for r in &limited {
+            eprintln!(
+                "warning: {}: {}; its answers are incomplete. Raise --timeout or --max-graph-nodes.",
+                r.spec.name,
+                r.outcome.limit.as_deref().unwrap_or_default()
+            );
+        }
+        return super::EXIT_LIMIT;
     }
     if args.accept && failed > 0 {
         return accept(&results, args.yes);

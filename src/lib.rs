@@ -3,6 +3,7 @@
 //!
 //! The library is layered as DEVELOPERS.md describes; `main.rs` is a thin shell over it.
 
+pub mod check;
 pub mod cli;
 pub mod demo;
 pub mod explain;

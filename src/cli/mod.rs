@@ -1,5 +1,6 @@
 //! Argument parsing, exit codes and the choice between text and JSON output.
 
+pub mod check;
 pub mod classify;
 pub mod common;
 pub mod demo;
@@ -54,6 +55,8 @@ enum Command {
     Demo(demo::DemoArgs),
     /// Measure spatial relations between labelled regions of NIfTI label maps.
     Measure(measure::MeasureArgs),
+    /// Run regression cases for a knowledge base (see the README's case format).
+    Check(check::CheckArgs),
 }
 
 /// Runs the command line and returns the process exit code.
@@ -82,5 +85,6 @@ where
         Command::Why(a) => why::run(a),
         Command::Demo(a) => demo::run(a),
         Command::Report(a) => report::run(a),
+        Command::Check(a) => check::run(a),
     }
 }

@@ -347,23 +347,8 @@ fn run_case(
     let facts = match (&c.facts, &c.maps, &c.labels) {
         (Some(f), None, None) => crate::facts::read_facts(&base.join(f))?,
         (None, Some(maps), Some(labels)) => {
-            let maps: Vec<_> = maps
-                .iter()
-                .map(|p| {
-                    crate::spatial::nifti_io::read_label_map(&base.join(p))
-                        .map_err(|e| e.to_string())
-                })
-                .collect::<Result<_, _>>()?;
-            let lp = base.join(labels);
-            let rows = crate::spatial::table::read_table(&lp).map_err(|e| e.to_string())?;
-            let m = crate::spatial::measure::measure(
-                &maps,
-                &rows,
-                &lp.display().to_string(),
-                &Default::default(),
-            )
-            .map_err(|e| e.to_string())?;
-            m.facts
+            let maps: Vec<PathBuf> = maps.iter().map(|p| base.join(p)).collect();
+            crate::facts::from_label_maps(&maps, &base.join(labels))?
         }
         _ => return Err("give either `facts` or both `maps` and `labels`".into()),
     };

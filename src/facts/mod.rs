@@ -162,3 +162,24 @@ pub fn read_facts(path: &std::path::Path) -> Result<Facts, String> {
     }
     Ok(facts)
 }
+
+/// Measures label maps with their table (default settings of `spatial::measure`) and
+/// returns the facts; shared by batch `report` and `check` so both read maps the same way.
+pub fn from_label_maps(
+    maps: &[std::path::PathBuf],
+    labels: &std::path::Path,
+) -> Result<Facts, String> {
+    let maps: Vec<_> = maps
+        .iter()
+        .map(|p| crate::spatial::nifti_io::read_label_map(p).map_err(|e| e.to_string()))
+        .collect::<Result<_, _>>()?;
+    let rows = crate::spatial::table::read_table(labels).map_err(|e| e.to_string())?;
+    let m = crate::spatial::measure::measure(
+        &maps,
+        &rows,
+        &labels.display().to_string(),
+        &Default::default(),
+    )
+    .map_err(|e| e.to_string())?;
+    Ok(m.facts)
+}

@@ -6,6 +6,7 @@ pub mod demo;
 pub mod explain;
 pub mod measure;
 pub mod report;
+pub mod shell;
 pub mod why;
 
 use clap::{Parser, Subcommand};
@@ -54,6 +55,8 @@ enum Command {
     Demo(demo::DemoArgs),
     /// Measure spatial relations between labelled regions of NIfTI label maps.
     Measure(measure::MeasureArgs),
+    /// An interactive shell over a knowledge base (or a script of its commands).
+    Shell(shell::ShellArgs),
 }
 
 /// Runs the command line and returns the process exit code.
@@ -82,5 +85,6 @@ where
         Command::Why(a) => why::run(a),
         Command::Demo(a) => demo::run(a),
         Command::Report(a) => report::run(a),
+        Command::Shell(a) => shell::run(a),
     }
 }

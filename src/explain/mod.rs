@@ -6,6 +6,7 @@ pub mod abduce;
 pub mod assertion;
 pub mod case;
 pub mod justify;
+pub mod why;
 
 pub use abduce::{ExplainOptions, ExplainResult, Explanation, Problem, explain};
 pub use assertion::Assertion;

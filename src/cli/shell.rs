@@ -250,10 +250,15 @@ impl Completer for ShellHelper {
         if PATH_COMMANDS.contains(&first) {
             return self.files.complete(line, pos, ctx);
         }
-        let start = before
-            .rfind(|c: char| c.is_whitespace() || "(){},".contains(c))
-            .map(|i| i + 1)
-            .unwrap_or(0);
+        // Inside an open 'label' the word starts at the quote; else after a separator.
+        let start = if before.matches('\'').count() % 2 == 1 {
+            before.rfind('\'').unwrap_or(0)
+        } else {
+            before
+                .rfind(|c: char| c.is_whitespace() || "(){},".contains(c))
+                .map(|i| i + 1)
+                .unwrap_or(0)
+        };
         let prefix = &before[start..];
         let lower = prefix.trim_start_matches('\'').to_lowercase();
         let c = self

@@ -173,6 +173,14 @@ impl EntityIndex {
                 return format!("{p}:{local}");
             }
         }
+        // An IRI the KB does not know (a case individual of a facts file, say): its
+        // fragment when no known entity has it.
+        if !self.by_iri.keys().any(|(i, _)| i == iri)
+            && !self.by_fragment.contains_key(f)
+            && f != iri
+        {
+            return f.to_string();
+        }
         format!("<{iri}>")
     }
 

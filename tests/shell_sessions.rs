@@ -358,3 +358,52 @@ fn history_goes_under_the_data_directory() {
     };
     assert_eq!(got.as_deref(), Some(p));
 }
+
+proptest::proptest! {
+    #![proptest_config(proptest::prelude::ProptestConfig::with_cases(24))]
+
+    /// Law: undo is the inverse of an edit, so undoing every edit restores the loaded axiom
+    /// set, and redoing them all gives back the edited one (whatever the order of adds and
+    /// retractions, including repeated ones).
+    #[test]
+    fn undo_and_redo_are_inverse(ops in proptest::collection::vec((0usize..4, proptest::bool::ANY), 1..7)) {
+        let adds = [
+            "Kidney SubClassOf Lesion",
+            ":X SubClassOf Organ and (partOf some Liver)",
+            "liver1 Type Kidney",
+            "Liver SubClassOf Organ",
+        ];
+        let retracts = [
+            "Liver SubClassOf Organ",
+            "Cyst SubClassOf Lesion",
+            "DisjointClasses(:Liver :Kidney)",
+            "liver1 Type Liver",
+        ];
+        let mut s = Session::default();
+        s.load_files(&[PathBuf::from(ORGANS)]).unwrap();
+        let start = Session::axiom_set(s.kb());
+        let mut n = 0;
+        for (i, add) in ops {
+            let cmd = if add {
+                format!("add {}", adds[i])
+            } else {
+                format!("retract {}", retracts[i])
+            };
+            if s.execute(&cmd).is_ok() {
+                n += 1;
+            }
+        }
+        proptest::prop_assert_eq!(s.edits().len(), n);
+        let edited = Session::axiom_set(s.kb());
+        for _ in 0..n {
+            s.execute("undo").unwrap();
+        }
+        proptest::prop_assert_eq!(Session::axiom_set(s.kb()), start);
+        proptest::prop_assert!(s.execute("undo").is_err());
+        proptest::prop_assert!(!s.unsaved());
+        for _ in 0..n {
+            s.execute("redo").unwrap();
+        }
+        proptest::prop_assert_eq!(Session::axiom_set(s.kb()), edited);
+    }
+}

@@ -407,3 +407,29 @@ proptest::proptest! {
         proptest::prop_assert_eq!(Session::axiom_set(s.kb()), edited);
     }
 }
+
+proptest::proptest! {
+    #![proptest_config(proptest::prelude::ProptestConfig::with_cases(200))]
+
+    /// Bad input never ends the session: any text after a command that reads expressions
+    /// returns (an answer or an error); it never panics or hangs, and a failed command
+    /// leaves the edits as they were.
+    #[test]
+    fn arbitrary_input_never_panics(
+        cmd in proptest::sample::select(vec!["ask", "show", "add", "retract", "why", "repairs", "tree", "explain", "help", "frob"]),
+        arg in "[A-Za-z:<>(){},'\" é\u{a0}#/_.0-9-]{0,40}",
+    ) {
+        let mut s = Session::default();
+        s.load_files(&[PathBuf::from(ORGANS)]).unwrap();
+        let before = s.edits().len();
+        let line = format!("{cmd} {arg}");
+        match s.execute(&line) {
+            Ok(_) => {}
+            Err(e) => {
+                let _ = e.to_string();
+                proptest::prop_assert_eq!(s.edits().len(), before);
+            }
+        }
+        proptest::prop_assert!(s.execute("ask Liver SubClassOf Organ").is_ok());
+    }
+}

@@ -245,7 +245,7 @@ pub fn execute(s: &mut Session, line: &str) -> Result<String, ShellError> {
             let near: Vec<&str> = COMMANDS
                 .iter()
                 .map(|c| c.name)
-                .filter(|n| n.starts_with(&other[..other.len().min(2)]))
+                .filter(|n| n.starts_with(&other.chars().take(2).collect::<String>()))
                 .collect();
             Err(l.err(
                 format!(
@@ -265,25 +265,33 @@ pub fn execute(s: &mut Session, line: &str) -> Result<String, ShellError> {
 /// Whitespace-separated words of the argument (double quotes group), with offsets.
 fn words(l: &Line) -> Result<Vec<(String, usize)>, ShellError> {
     let mut out = Vec::new();
-    let a = l.arg;
-    let mut i = 0;
-    let b = a.as_bytes();
-    while i < b.len() {
-        if b[i].is_ascii_whitespace() {
-            i += 1;
+    let mut cur: Option<(String, usize)> = None;
+    let mut quoted: Option<usize> = None;
+    for (i, c) in l.arg.char_indices() {
+        if let Some(q) = quoted {
+            if c == '"' {
+                out.push((l.arg[q + 1..i].to_string(), l.off + q));
+                quoted = None;
+            }
             continue;
         }
-        if b[i] == b'"' {
-            let Some(e) = a[i + 1..].find('"') else {
-                return Err(l.err("unclosed quote; close it with \"", l.off + i));
-            };
-            out.push((a[i + 1..i + 1 + e].to_string(), l.off + i));
-            i += e + 2;
+        if c.is_whitespace() {
+            if let Some(w) = cur.take() {
+                out.push(w);
+            }
+        } else if c == '"' && cur.is_none() {
+            quoted = Some(i);
         } else {
-            let e = a[i..].find(char::is_whitespace).unwrap_or(a.len() - i);
-            out.push((a[i..i + e].to_string(), l.off + i));
-            i += e;
+            cur.get_or_insert_with(|| (String::new(), l.off + i))
+                .0
+                .push(c);
         }
+    }
+    if let Some(q) = quoted {
+        return Err(l.err("unclosed quote; close it with \"", l.off + q));
+    }
+    if let Some(w) = cur {
+        out.push(w);
     }
     Ok(out)
 }

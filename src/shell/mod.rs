@@ -43,9 +43,13 @@ impl ShellError {
 
     /// An error pointing at byte `offset` of `line`.
     pub fn at(message: impl Into<String>, line: &str, offset: usize) -> Self {
+        let mut o = offset.min(line.len());
+        while !line.is_char_boundary(o) {
+            o -= 1;
+        }
         ShellError {
             message: message.into(),
-            at: Some((line.to_string(), offset.min(line.len()))),
+            at: Some((line.to_string(), o)),
         }
     }
 }

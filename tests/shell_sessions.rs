@@ -72,6 +72,7 @@ status
 show Liver
 show liver1
 show 'simple cyst'
+show partOf
 tree
 tree Organ
 unsat

@@ -639,9 +639,9 @@ fn unload(s: &mut Session, l: &Line) -> Result<String, ShellError> {
     let gone = files.remove(idx);
     let notes = s.set_files(files)?;
     let mut out = format!(
-        "unloaded {}; {} source axioms remain\n",
+        "unloaded {}; {} axioms remain in force\n",
         gone.display(),
-        s.kb.sources.len()
+        in_force(&s.kb)
     );
     for n in notes {
         let _ = writeln!(out, "  {n}");
@@ -672,6 +672,15 @@ fn reload(s: &mut Session) -> Result<String, ShellError> {
     Ok(out)
 }
 
+/// The number of source axioms with at least one internal axiom still in the KB.
+fn in_force(kb: &KnowledgeBase) -> usize {
+    kb.axioms
+        .iter()
+        .map(|a| a.source)
+        .collect::<std::collections::BTreeSet<_>>()
+        .len()
+}
+
 fn status(s: &Session) -> String {
     let mut out = String::new();
     let _ = writeln!(out, "knowledge base: {}", s.name());
@@ -683,8 +692,8 @@ fn status(s: &Session) -> String {
     }
     let _ = writeln!(
         out,
-        "  {} source axioms, {} classes, {} object properties, {} individuals",
-        s.kb.sources.len(),
+        "  {} axioms in force, {} classes, {} object properties, {} individuals",
+        in_force(&s.kb),
         s.kb.vocab.classes.len(),
         s.kb.vocab.props.len(),
         s.kb.vocab.individuals.len()
@@ -828,7 +837,8 @@ fn show(s: &mut Session, l: &Line) -> Result<String, ShellError> {
     match kind {
         Kind::Class => show_class(s, &iri, &mut out)?,
         Kind::Individual => show_individual(s, &iri, &mut out)?,
-        _ => {}
+        Kind::ObjectProperty => show_property(s, &iri, &mut out),
+        Kind::DataProperty => {}
     }
     // Usage: the axioms in force that mention the entity.
     let needle = format!("<{iri}>");
@@ -1039,6 +1049,60 @@ fn show_individual(s: &mut Session, iri: &str, out: &mut String) -> Result<(), S
         let _ = writeln!(out, "    {r}");
     }
     Ok(())
+}
+
+fn show_property(s: &Session, iri: &str, out: &mut String) {
+    let kb = &s.kb;
+    let Some(p) = kb.vocab.find_prop(iri) else {
+        return;
+    };
+    let role = |r: RoleId| {
+        let n = s.names.short(kb.vocab.prop_iri(r.prop()));
+        if r.is_inverse() {
+            format!("inverse {n}")
+        } else {
+            n
+        }
+    };
+    let (mut sup, mut sub, mut dom, mut range, mut traits) =
+        (Vec::new(), Vec::new(), Vec::new(), Vec::new(), Vec::new());
+    for a in &kb.axioms {
+        match &a.axiom {
+            Axiom::SubRole(x, y) if x.prop() == p && !x.is_inverse() && y.prop() != p => {
+                sup.push(role(*y))
+            }
+            Axiom::SubRole(x, y) if y.prop() == p && !y.is_inverse() && x.prop() != p => {
+                sub.push(role(*x))
+            }
+            Axiom::SubRole(x, y) if x.prop() == p && y.prop() == p && x != y => {
+                traits.push("symmetric".to_string())
+            }
+            Axiom::Domain(r, c) if r.prop() == p => {
+                let c = manchester(s, kb, *c);
+                if r.is_inverse() {
+                    range.push(c)
+                } else {
+                    dom.push(c)
+                }
+            }
+            Axiom::Transitive(r) if r.prop() == p => traits.push("transitive".into()),
+            Axiom::Functional(r) if r.prop() == p => traits.push(if r.is_inverse() {
+                "inverse functional".into()
+            } else {
+                "functional".into()
+            }),
+            _ => {}
+        }
+    }
+    for v in [&mut sup, &mut sub, &mut dom, &mut range, &mut traits] {
+        v.sort();
+        v.dedup();
+    }
+    let _ = writeln!(out, "  told superproperties: {}", names_list(sup));
+    let _ = writeln!(out, "  told subproperties: {}", names_list(sub));
+    let _ = writeln!(out, "  domain: {}", names_list(dom));
+    let _ = writeln!(out, "  range: {}", names_list(range));
+    let _ = writeln!(out, "  characteristics: {}", names_list(traits));
 }
 
 /// Reads an axiom for `add` or `retract` into functional syntax.

@@ -11,4 +11,5 @@ pub mod facts;
 pub mod kb;
 pub mod reasoner;
 pub mod render;
+pub mod shell;
 pub mod spatial;

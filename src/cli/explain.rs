@@ -1,7 +1,7 @@
 //! `wherefore explain`: abduction from observations in an ontology file.
 
 use super::common::{KbOptions, LimitOptions, load_kb, refusal_message};
-use crate::explain::case::{Mark, observations_problem, read_abducibles};
+use crate::explain::case::{self, ObservationSource};
 use crate::explain::{ExplainOptions, ExplainResult, Problem, explain};
 use crate::kb::{KnowledgeBase, owl};
 use clap::Args;
@@ -91,50 +91,32 @@ fn bad(msg: String) -> i32 {
 /// derives the abducibles.
 pub fn build_problem(args: &ExplainArgs) -> Result<Problem, i32> {
     let kb = load_kb(&args.kb, &args.kb_opts)?;
-    if let Some(fp) = &args.facts {
+    let facts;
+    let file;
+    let source = if let Some(fp) = &args.facts {
         if !(args.alpha > 0.0 && args.alpha <= 1.0) {
             return Err(bad(format!("--alpha {} must lie in (0, 1]", args.alpha)));
         }
-        let facts = crate::facts::read_facts(fp).map_err(bad)?;
-        let file = fp.display().to_string();
-        let mut case = crate::explain::case::case_problem(&kb, &facts, &file);
-        for w in &case.abox.warnings {
-            eprintln!("warning: {w}");
-        }
-        if case.problem.observations.is_empty() {
-            return Err(bad(format!(
-                "{file}: no finding to explain: no individual's class is marked {}finding in the KB",
-                crate::explain::WF
-            )));
-        }
-        if let Some(p) = &args.abducibles {
-            let individuals: Vec<_> = case.abox.individuals.values().copied().collect();
-            case.problem.abducibles =
-                read_abducibles(&mut case.problem.kb, p, &individuals).map_err(bad)?;
-        }
-        return Ok(case.problem);
-    }
-    let Some(obs) = &args.observations else {
+        facts = crate::facts::read_facts(fp).map_err(bad)?;
+        file = fp.display().to_string();
+        ObservationSource::Facts(&facts, &file)
+    } else if let Some(obs) = &args.observations {
+        ObservationSource::File(obs)
+    } else {
         return Err(bad(
             "give the observations: --observations OBS.ofn or --facts FACTS.json".into(),
         ));
     };
-    let mut kb = kb;
-    let mark = Mark::of(&kb);
     let lo = owl::LoadOptions {
         import_dirs: args.kb_opts.import_dirs.clone(),
         lenient: false,
     };
-    if let Err(e) = owl::load_into(&mut kb, std::slice::from_ref(obs), &lo) {
-        return Err(bad(e.to_string()));
+    let (problem, warnings) =
+        case::build_problem(&kb, source, args.abducibles.as_deref(), &lo).map_err(bad)?;
+    for w in &warnings {
+        eprintln!("warning: {w}");
     }
-    observations_problem(
-        kb,
-        mark,
-        &obs.display().to_string(),
-        args.abducibles.as_deref(),
-    )
-    .map_err(bad)
+    Ok(problem)
 }
 
 /// The source texts of internal axioms, sorted and without repeats.

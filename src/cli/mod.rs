@@ -7,6 +7,7 @@ pub mod demo;
 pub mod explain;
 pub mod measure;
 pub mod report;
+pub mod shell;
 pub mod why;
 
 use clap::{Parser, Subcommand};
@@ -57,6 +58,8 @@ enum Command {
     Measure(measure::MeasureArgs),
     /// Run regression cases for a knowledge base (see the README's case format).
     Check(check::CheckArgs),
+    /// An interactive shell over a knowledge base (or a script of its commands).
+    Shell(shell::ShellArgs),
 }
 
 /// Runs the command line and returns the process exit code.
@@ -86,5 +89,6 @@ where
         Command::Demo(a) => demo::run(a),
         Command::Report(a) => report::run(a),
         Command::Check(a) => check::run(a),
+        Command::Shell(a) => shell::run(a),
     }
 }

@@ -3,9 +3,10 @@
 //! tree), with the minimal repairs (the minimal hitting sets of the justifications).
 
 use super::common::{KbOptions, LimitOptions, load_kb, refusal_message};
-use crate::explain::justify::{all_justifications, minimal_hitting_sets, quickxplain};
-use crate::kb::{Axiom, ClassId, ConceptId, KnowledgeBase, owl};
-use crate::reasoner::{Answer, Limit, Reasoner};
+use crate::explain::justify::minimal_hitting_sets;
+use crate::explain::why::{Items, Justified, Target, UnsatSplit, justify, targets_of, unsat_split};
+use crate::kb::{ClassId, KnowledgeBase, owl};
+use crate::reasoner::{Limits, Reasoner};
 use clap::Args;
 use std::path::PathBuf;
 
@@ -42,55 +43,6 @@ pub struct WhyArgs {
     limits: LimitOptions,
 }
 
-/// What is to be justified.
-#[derive(Clone, Debug)]
-enum Target {
-    Subsumption(ConceptId, ConceptId),
-    Instance(ConceptId, crate::kb::IndividualId),
-    Role(
-        crate::kb::RoleId,
-        crate::kb::IndividualId,
-        crate::kb::IndividualId,
-    ),
-    Unsat(ConceptId),
-    Inconsistent,
-}
-
-struct Justified {
-    target: String,
-    justifications: Vec<Vec<usize>>,
-    /// With `--laconic`: per justification, its laconic axioms (functional syntax).
-    laconic: Vec<Vec<String>>,
-    complete: bool,
-}
-
-/// Whether the reasoner's axioms entail every target.
-fn target_holds(r: &mut Reasoner, ts: &[Target]) -> Result<bool, Limit> {
-    for t in ts {
-        let a = match *t {
-            Target::Subsumption(c, d) => r.is_subsumed(c, d),
-            Target::Instance(c, a) => r.entails_class_assertion(c, a),
-            Target::Role(p, a, b) => r.entails_role_assertion(p, a, b),
-            Target::Unsat(c) => match r.is_satisfiable(c) {
-                Answer::Yes => Answer::No,
-                Answer::No => Answer::Yes,
-                u => u,
-            },
-            Target::Inconsistent => match r.is_consistent() {
-                Answer::Yes => Answer::No,
-                Answer::No => Answer::Yes,
-                u => u,
-            },
-        };
-        match a {
-            Answer::Yes => {}
-            Answer::No => return Ok(false),
-            Answer::Unknown(l) => return Err(l),
-        }
-    }
-    Ok(true)
-}
-
 /// Runs `why` and returns the exit code.
 pub fn run(args: WhyArgs) -> i32 {
     let mut kb = match load_kb(&args.kb, &args.kb_opts) {
@@ -107,33 +59,13 @@ pub fn run(args: WhyArgs) -> i32 {
                 return super::EXIT_BAD_INPUT;
             }
         };
-        let mut ts = Vec::new();
-        for i in range {
-            match kb.axioms[i].axiom.clone() {
-                Axiom::SubClass(c, d) => ts.push(Target::Subsumption(c, d)),
-                Axiom::Equivalent(cs) => {
-                    for w in cs.windows(2) {
-                        ts.push(Target::Subsumption(w[0], w[1]));
-                        ts.push(Target::Subsumption(w[1], w[0]));
-                    }
-                }
-                Axiom::ClassAssertion(c, a) => ts.push(Target::Instance(c, a)),
-                Axiom::RoleAssertion(r, a, b) => ts.push(Target::Role(r, a, b)),
-                other => {
-                    eprintln!(
-                        "error: --entailment: {other:?} is not supported as a target; give SubClassOf, EquivalentClasses, ClassAssertion or ObjectPropertyAssertion"
-                    );
-                    return super::EXIT_BAD_INPUT;
-                }
+        match targets_of(&kb, range) {
+            Ok(ts) => targets.push((text.clone(), ts)),
+            Err(e) => {
+                eprintln!("error: --entailment: {e}");
+                return super::EXIT_BAD_INPUT;
             }
         }
-        if ts.is_empty() {
-            eprintln!(
-                "error: --entailment: no axiom found in `{text}`; write one axiom in functional syntax"
-            );
-            return super::EXIT_BAD_INPUT;
-        }
-        targets.push((text.clone(), ts));
     } else if let Some(iri) = &args.unsat {
         let iri = iri.trim_start_matches('<').trim_end_matches('>');
         let Some(c) = kb.vocab.find_class(iri) else {
@@ -149,149 +81,35 @@ pub fn run(args: WhyArgs) -> i32 {
         ));
     }
     let limits = args.limits.limits();
-    // Source axioms of the KB are the items; a query's own axioms are not.
-    let mut by_source: std::collections::BTreeMap<usize, Vec<usize>> =
-        std::collections::BTreeMap::new();
-    for (i, a) in kb.axioms.iter().enumerate().take(n_ax) {
-        by_source.entry(a.source).or_default().push(i);
-    }
-    let items: Vec<usize> = by_source.keys().copied().collect();
-    let holds = |kb: &KnowledgeBase, srcs: &[usize], ts: &[Target]| -> Result<bool, Limit> {
-        let mut mask = vec![false; kb.axioms.len()];
-        for s in srcs {
-            for &i in &by_source[s] {
-                mask[i] = true;
-            }
-        }
-        let mut r = match Reasoner::with_axioms(kb, Some(&mask), &[]) {
-            Ok(r) => r,
-            Err(_) => return Ok(false),
-        };
-        r.limits = limits.clone();
-        target_holds(&mut r, ts)
-    };
-    // The same test over explicit axioms (laconic pieces), none of the KB's own.
-    let holds_axioms =
-        |kb: &KnowledgeBase, axioms: &[Axiom], ts: &[Target]| -> Result<bool, Limit> {
-            let none = vec![false; kb.axioms.len()];
-            let mut r = match Reasoner::with_axioms(kb, Some(&none), axioms) {
-                Ok(r) => r,
-                Err(_) => return Ok(false),
-            };
-            r.limits = limits.clone();
-            target_holds(&mut r, ts)
-        };
     // The whole KB must be supported by the reasoner.
     if let Err(r) = Reasoner::new(&kb) {
         eprintln!("error: {}", refusal_message(&kb, &r, &args.kb));
         return super::EXIT_BAD_INPUT;
     }
-    let mut results: Vec<Justified> = Vec::new();
-    let mut roots: Vec<String> = Vec::new();
-    let mut derived: Vec<String> = Vec::new();
-    let mut limit_hit: Option<Limit> = None;
-    if targets.is_empty() {
-        // Every unsatisfiable class: one justification each decides root or derived.
-        let mut r = Reasoner::new(&kb).expect("checked above");
-        r.limits = limits.clone();
-        let classes: Vec<ClassId> = kb.signature_classes.clone();
-        let mut unsat = Vec::new();
-        if r.is_consistent() == Answer::No {
-            targets.push((
-                "the knowledge base is inconsistent".into(),
-                vec![Target::Inconsistent],
-            ));
-        } else {
-            for c in classes {
-                let a = r.concepts_mut().atom(c);
-                if r.is_satisfiable(a) == Answer::No {
-                    unsat.push((c, a));
-                }
-            }
-        }
-        let mut first: Vec<(ClassId, Vec<usize>)> = Vec::new();
-        for &(c, a) in &unsat {
-            let ts = vec![Target::Unsat(a)];
-            let mut test = |s: &[usize]| holds(&kb, s, &ts);
-            match quickxplain(&items, &mut test) {
-                Ok(Some(j)) => first.push((c, j)),
-                Ok(None) => {}
-                Err(l) => limit_hit = Some(l),
-            }
-        }
-        for (c, j) in &first {
-            // Derived: its justification strictly contains another class's justification
-            // (Kalyanpur et al. 2005, root and derived unsatisfiable classes).
-            let is_derived = first
-                .iter()
-                .any(|(d, k)| d != c && k.len() < j.len() && k.iter().all(|x| j.contains(x)));
-            let name = kb.vocab.class_iri(*c).to_string();
-            if is_derived {
-                derived.push(name.clone());
-            } else {
-                roots.push(name.clone());
-                let a = kb
-                    .concepts
-                    .find(&crate::kb::Concept::Atom(*c))
-                    .unwrap_or(ConceptId::BOTTOM);
-                targets.push((format!("unsatisfiable <{name}>"), vec![Target::Unsat(a)]));
-            }
-        }
-    }
-    for (name, ts) in &targets {
-        let mut test = |s: &[usize]| holds(&kb, s, ts);
-        match all_justifications(&items, &mut test, args.max_nodes) {
-            Ok((js, complete)) => {
-                let mut laconic = Vec::new();
-                if args.laconic {
-                    for j in &js {
-                        let axioms: Vec<usize> = j
-                            .iter()
-                            .flat_map(|s| by_source[s].iter().copied())
-                            .collect();
-                        let mut t = |k: &KnowledgeBase, a: &[Axiom]| holds_axioms(k, a, ts);
-                        match crate::explain::laconic::laconic(&kb, &axioms, &mut t) {
-                            Ok(l) => {
-                                let mut v: Vec<String> = l
-                                    .axioms
-                                    .iter()
-                                    .map(|a| crate::explain::laconic::axiom_ofn(&l.kb, a))
-                                    .collect();
-                                v.sort();
-                                laconic.push(v);
-                            }
-                            Err(l) => {
-                                limit_hit = Some(l);
-                                laconic.push(Vec::new());
-                            }
-                        }
-                    }
-                }
-                results.push(Justified {
-                    target: name.clone(),
-                    justifications: js,
-                    laconic,
-                    complete,
-                })
-            }
-            Err(l) => {
-                limit_hit = Some(l);
-                results.push(Justified {
-                    target: name.clone(),
-                    justifications: vec![],
-                    laconic: vec![],
-                    complete: false,
-                });
-            }
-        }
-    }
+    let items = Items::new(&kb, n_ax);
+    let listing = targets.is_empty();
+    let report = why_report(&kb, &items, targets, &limits, args.max_nodes);
     let text_of = |s: usize| kb.sources[s].text.clone();
-    let incomplete = results.iter().any(|r| !r.complete) || limit_hit.is_some();
+    let mut laconic: Vec<Vec<Vec<String>>> = Vec::new();
+    let mut laconic_limit = false;
+    if args.laconic {
+        for r in &report.results {
+            match crate::explain::why::laconic_forms(&kb, &items, r, &limits) {
+                Ok(v) => laconic.push(v),
+                Err(_) => {
+                    laconic_limit = true;
+                    laconic.push(Vec::new());
+                }
+            }
+        }
+    }
     match args.format {
         super::Format::Json => {
-            let v: Vec<serde_json::Value> = results
+            let v: Vec<serde_json::Value> = report
+                .results
                 .iter()
-                .map(|r| {
+                .enumerate()
+                .map(|(n, r)| {
                     let repairs = minimal_hitting_sets(&r.justifications);
                     let mut v = serde_json::json!({
                         "target": r.target,
@@ -300,74 +118,170 @@ pub fn run(args: WhyArgs) -> i32 {
                         "justifications": r.justifications.iter().map(|j| j.iter().map(|&s| text_of(s)).collect::<Vec<_>>()).collect::<Vec<_>>(),
                         "repairs": repairs.iter().map(|j| j.iter().map(|&s| text_of(s)).collect::<Vec<_>>()).collect::<Vec<_>>(),
                     });
-                    if args.laconic {
-                        v["laconic"] = serde_json::json!(r.laconic);
+                    if let Some(l) = laconic.get(n) {
+                        v["laconic"] = serde_json::json!(l);
                     }
                     v
                 })
                 .collect();
             let mut out = serde_json::json!({ "results": v });
-            if args.entailment.is_none() && args.unsat.is_none() && !args.inconsistent {
-                roots.sort();
-                derived.sort();
+            if listing {
+                let iri = |c: &ClassId| kb.vocab.class_iri(*c).to_string();
+                let roots: Vec<String> = report.split.roots.iter().map(|(c, _)| iri(c)).collect();
+                let derived: Vec<String> = report.split.derived.iter().map(iri).collect();
                 out["root_unsatisfiable"] = serde_json::json!(roots);
                 out["derived_unsatisfiable"] = serde_json::json!(derived);
             }
             println!("{}", serde_json::to_string_pretty(&out).unwrap_or_default());
         }
         super::Format::Text => {
-            if args.entailment.is_none() && args.unsat.is_none() && !args.inconsistent {
-                if roots.is_empty() && derived.is_empty() && results.is_empty() {
-                    println!("Every class is satisfiable and the knowledge base is consistent.");
-                }
-                if !roots.is_empty() {
-                    println!("Root unsatisfiable classes: {}", roots.join(", "));
-                }
-                if !derived.is_empty() {
-                    println!(
-                        "Derived unsatisfiable classes (they follow from a root one): {}",
-                        derived.join(", ")
-                    );
-                }
-            }
-            for r in &results {
-                println!("Why {}:", r.target);
-                if r.justifications.is_empty() {
-                    println!("  not entailed, so nothing to justify.");
-                }
-                for (n, j) in r.justifications.iter().enumerate() {
+            print!(
+                "{}",
+                why_text(&kb, &report, listing, true, true, &|i| i.to_string())
+            );
+            for (r, l) in report.results.iter().zip(&laconic) {
+                println!(
+                    "Laconic justifications of {} (only the parts needed):",
+                    r.target
+                );
+                for (n, j) in l.iter().enumerate() {
                     println!("  Justification {}:", n + 1);
-                    for (k, &s) in j.iter().enumerate() {
-                        println!("    {}. {}", k + 1, text_of(s));
-                    }
-                    if let Some(l) = r.laconic.get(n) {
-                        println!("    Laconic (only the parts needed):");
-                        for (k, a) in l.iter().enumerate() {
-                            println!("      {}. {a}", k + 1);
-                        }
-                    }
-                }
-                let repairs = minimal_hitting_sets(&r.justifications);
-                if !repairs.is_empty() {
-                    println!("  Minimal repairs (remove all axioms of one line):");
-                    for rep in repairs {
-                        println!(
-                            "    - {}",
-                            rep.iter()
-                                .map(|&s| text_of(s))
-                                .collect::<Vec<_>>()
-                                .join("  AND  ")
-                        );
+                    for (k, a) in j.iter().enumerate() {
+                        println!("    {}. {a}", k + 1);
                     }
                 }
             }
         }
     }
-    if incomplete {
+    if report.incomplete() || laconic_limit {
         eprintln!(
             "warning: a limit stopped the search; more justifications may exist. Raise --max-nodes or --timeout."
         );
         return super::EXIT_LIMIT;
     }
     super::EXIT_OK
+}
+
+/// Justifications for the given targets; without targets, for every root unsatisfiable
+/// class (or the inconsistency).
+pub fn why_report(
+    kb: &KnowledgeBase,
+    items: &Items,
+    mut targets: Vec<(String, Vec<Target>)>,
+    limits: &Limits,
+    max_nodes: usize,
+) -> WhyReport {
+    let mut split = UnsatSplit::default();
+    if targets.is_empty() {
+        split = unsat_split(kb, items, limits);
+        if split.inconsistent {
+            targets.push((
+                "the knowledge base is inconsistent".into(),
+                vec![Target::Inconsistent],
+            ));
+        }
+        for (c, a) in &split.roots {
+            targets.push((
+                format!("unsatisfiable <{}>", kb.vocab.class_iri(*c)),
+                vec![Target::Unsat(*a)],
+            ));
+        }
+    }
+    let results = targets
+        .iter()
+        .map(|(name, ts)| justify(kb, items, name, ts, limits, max_nodes))
+        .collect();
+    WhyReport { results, split }
+}
+
+/// Justifications of one or more targets and, when every unsatisfiable class was asked
+/// for, the root/derived split.
+#[derive(Clone, Debug, Default)]
+pub struct WhyReport {
+    /// One entry per target.
+    pub results: Vec<Justified>,
+    /// Root and derived unsatisfiable classes.
+    pub split: UnsatSplit,
+}
+
+impl WhyReport {
+    /// Whether a limit stopped any part of the search.
+    pub fn incomplete(&self) -> bool {
+        self.split.limit.is_some() || self.results.iter().any(|r| !r.complete)
+    }
+}
+
+/// The text form: justifications and/or repairs (the minimal hitting sets of the
+/// justifications). `name` turns a full IRI into what is shown.
+pub fn why_text(
+    kb: &KnowledgeBase,
+    report: &WhyReport,
+    listing: bool,
+    justifications: bool,
+    repairs: bool,
+    name: &dyn Fn(&str) -> String,
+) -> String {
+    use std::fmt::Write;
+    let mut s = String::new();
+    let text_of = |i: usize| kb.sources[i].text.clone();
+    if listing {
+        let names = |v: Vec<&str>| v.into_iter().map(name).collect::<Vec<_>>().join(", ");
+        let roots: Vec<&str> = report
+            .split
+            .roots
+            .iter()
+            .map(|(c, _)| kb.vocab.class_iri(*c))
+            .collect();
+        let derived: Vec<&str> = report
+            .split
+            .derived
+            .iter()
+            .map(|c| kb.vocab.class_iri(*c))
+            .collect();
+        if roots.is_empty() && derived.is_empty() && report.results.is_empty() {
+            let _ = writeln!(
+                s,
+                "Every class is satisfiable and the knowledge base is consistent."
+            );
+        }
+        if !roots.is_empty() {
+            let _ = writeln!(s, "Root unsatisfiable classes: {}", names(roots));
+        }
+        if !derived.is_empty() {
+            let _ = writeln!(
+                s,
+                "Derived unsatisfiable classes (they follow from a root one): {}",
+                names(derived)
+            );
+        }
+    }
+    for r in &report.results {
+        let _ = writeln!(s, "Why {}:", r.target);
+        if r.justifications.is_empty() {
+            let _ = writeln!(s, "  not entailed, so nothing to justify.");
+        }
+        if justifications {
+            for (n, j) in r.justifications.iter().enumerate() {
+                let _ = writeln!(s, "  Justification {}:", n + 1);
+                for (k, &i) in j.iter().enumerate() {
+                    let _ = writeln!(s, "    {}. {}", k + 1, text_of(i));
+                }
+            }
+        }
+        let reps = minimal_hitting_sets(&r.justifications);
+        if repairs && !reps.is_empty() {
+            let _ = writeln!(s, "  Minimal repairs (remove all axioms of one line):");
+            for rep in reps {
+                let _ = writeln!(
+                    s,
+                    "    - {}",
+                    rep.iter()
+                        .map(|&i| text_of(i))
+                        .collect::<Vec<_>>()
+                        .join("  AND  ")
+                );
+            }
+        }
+    }
+    s
 }

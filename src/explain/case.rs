@@ -247,3 +247,59 @@ pub fn read_abducibles(
     out.dedup();
     Ok(out)
 }
+
+/// Where the observations of an abduction problem come from.
+#[derive(Clone, Copy, Debug)]
+pub enum ObservationSource<'a> {
+    /// An ontology file of class and property assertions.
+    File(&'a Path),
+    /// A facts file already read: its findings are the observations, the rest background.
+    Facts(&'a Facts, &'a str),
+    /// Assertions in functional syntax, with a name that stands for the file in messages.
+    Text(&'a str, &'a str),
+}
+
+/// Builds an abduction problem from a KB and observations, with abducibles from `abducibles`
+/// (a file) or the KB's annotations. Returns the problem and warnings for the user.
+pub fn build_problem(
+    kb: &KnowledgeBase,
+    source: ObservationSource,
+    abducibles: Option<&Path>,
+    load: &crate::kb::owl::LoadOptions,
+) -> Result<(Problem, Vec<String>), String> {
+    match source {
+        ObservationSource::Facts(facts, file) => {
+            let mut case = case_problem(kb, facts, file);
+            if case.problem.observations.is_empty() {
+                return Err(format!(
+                    "{file}: no finding to explain: no individual's class is marked {}finding in the KB",
+                    super::WF
+                ));
+            }
+            if let Some(p) = abducibles {
+                let individuals: Vec<_> = case.abox.individuals.values().copied().collect();
+                case.problem.abducibles = read_abducibles(&mut case.problem.kb, p, &individuals)?;
+            }
+            Ok((case.problem, case.abox.warnings))
+        }
+        ObservationSource::File(path) => {
+            let mut kb = kb.clone();
+            let mark = Mark::of(&kb);
+            let lo = crate::kb::owl::LoadOptions {
+                import_dirs: load.import_dirs.clone(),
+                lenient: false,
+            };
+            crate::kb::owl::load_into(&mut kb, &[path.to_path_buf()], &lo)
+                .map_err(|e| e.to_string())?;
+            let p = observations_problem(kb, mark, &path.display().to_string(), abducibles)?;
+            Ok((p, Vec::new()))
+        }
+        ObservationSource::Text(name, text) => {
+            let mut kb = kb.clone();
+            let mark = Mark::of(&kb);
+            crate::kb::owl::load_axioms_text(&mut kb, name, text).map_err(|e| e.to_string())?;
+            let p = observations_problem(kb, mark, name, abducibles)?;
+            Ok((p, Vec::new()))
+        }
+    }
+}

@@ -7,6 +7,7 @@ pub mod assertion;
 pub mod case;
 pub mod justify;
 pub mod laconic;
+pub mod why;
 
 pub use abduce::{ExplainOptions, ExplainResult, Explanation, Problem, explain};
 pub use assertion::Assertion;

@@ -252,8 +252,11 @@ pub fn load_axioms_text(
             body.push('\n');
         }
     }
-    let doc = format!("{prefixes}Ontology(<urn:wherefore:query>\n{body})\n");
+    let header = format!("{prefixes}Ontology(<urn:wherefore:query>\n");
+    let doc = format!("{header}{body})\n");
     let (doc, shift) = with_standard_prefixes(&doc);
+    // Positions in messages count from the start of the axioms, not of the wrapper.
+    let shift = shift + header.len();
     let parsed = std::thread::Builder::new()
         .name(PARSER_THREAD.into())
         .stack_size(256 << 20)
@@ -268,7 +271,7 @@ pub fn load_axioms_text(
         Ok(Err(reason)) => {
             return Err(KbError::Syntax {
                 file: name.into(),
-                reason: locate(&reason, text, shift),
+                reason: locate(&reason, &body, shift),
             });
         }
         Err(_) => {
@@ -343,6 +346,11 @@ fn parse_file(path: &Path) -> Result<Parsed, KbError> {
         file: file.clone(),
         reason: e.to_string(),
     })?;
+    parse_bytes(file, bytes)
+}
+
+/// Parses one document's bytes; `file` names it in messages.
+fn parse_bytes(file: String, bytes: Vec<u8>) -> Result<Parsed, KbError> {
     if bytes.iter().all(|b| b.is_ascii_whitespace()) {
         return Err(KbError::Syntax {
             file,
@@ -437,6 +445,97 @@ fn parse_file(path: &Path) -> Result<Parsed, KbError> {
         components,
         iri,
         imports,
+    })
+}
+
+/// An edit of the session, applied to the documents when they are written back.
+#[derive(Clone, Copy, Debug)]
+pub enum DocumentEdit<'a> {
+    /// Axioms in functional syntax (`Prefix` lines may precede them).
+    Add(&'a str),
+    /// An axiom, as the knowledge base's source text has it (full IRIs, no annotations):
+    /// every component with that text is removed, whatever its annotations.
+    Retract(&'a str),
+}
+
+/// Writes one OWL 2 functional-syntax document holding every component of `documents`
+/// (name, text; any syntax we read) with `edits` applied in order. Imports of the merged
+/// documents are dropped (their content is inside); the first document's ontology IRI is
+/// kept. `prefixes` (name, IRI) are declared in the output; the empty name is the default.
+pub fn write_merged(
+    documents: &[(String, String)],
+    edits: &[DocumentEdit],
+    prefixes: &[(String, String)],
+) -> Result<String, KbError> {
+    use horned_owl::ontology::component_mapped::ComponentMappedOntology;
+    let mut comps: BTreeSet<AnnotatedComponent<ArcStr>> = BTreeSet::new();
+    let mut iris: BTreeSet<String> = BTreeSet::new();
+    let mut first_id = true;
+    for (name, text) in documents {
+        let parsed = parse_bytes(name.clone(), text.clone().into_bytes())?;
+        if let Some(i) = &parsed.iri {
+            iris.insert(i.clone());
+        }
+        for ac in parsed.components {
+            if matches!(ac.component, Component::OntologyID(_)) {
+                if !first_id {
+                    continue;
+                }
+                first_id = false;
+            }
+            comps.insert(ac);
+        }
+    }
+    comps.retain(
+        |ac| !matches!(&ac.component, Component::Import(i) if iris.contains(&i.0.to_string())),
+    );
+    for e in edits {
+        match e {
+            DocumentEdit::Add(text) => {
+                let mut head = String::new();
+                let mut body = String::new();
+                for line in text.lines() {
+                    if line.trim_start().starts_with("Prefix(") {
+                        head.push_str(line);
+                        head.push('\n');
+                    } else {
+                        body.push_str(line);
+                        body.push('\n');
+                    }
+                }
+                let doc = format!("{head}Ontology(<urn:wherefore:edit>\n{body})\n");
+                let parsed = parse_bytes("session edit".into(), doc.into_bytes())?;
+                for ac in parsed.components {
+                    if !matches!(ac.component, Component::OntologyID(_)) {
+                        comps.insert(ac);
+                    }
+                }
+            }
+            DocumentEdit::Retract(text) => {
+                comps.retain(|ac| ac.component.as_functional().to_string() != *text);
+            }
+        }
+    }
+    let mut mapping = horned_owl::curie::PrefixMapping::default();
+    for (p, iri) in prefixes {
+        if p.is_empty() {
+            mapping.set_default(iri);
+        } else {
+            let _ = mapping.add_prefix(p, iri);
+        }
+    }
+    let ont: ComponentMappedOntology<ArcStr, horned_owl::model::ArcAnnotatedComponent> =
+        comps.into_iter().collect();
+    let out =
+        horned_owl::io::ofn::writer::write(Vec::new(), &ont, Some(&mapping)).map_err(|e| {
+            KbError::Syntax {
+                file: "(save)".into(),
+                reason: format!("cannot write functional syntax: {e}"),
+            }
+        })?;
+    String::from_utf8(out).map_err(|e| KbError::Syntax {
+        file: "(save)".into(),
+        reason: e.to_string(),
     })
 }
 

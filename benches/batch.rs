@@ -46,10 +46,7 @@ fn main() {
     let dir = std::env::temp_dir().join(format!("wherefore-bench-batch-{}", std::process::id()));
     let demo = dir.join("demo");
     let outcomes = wherefore::demo::run(&demo).expect("demo runs");
-    let facts: Vec<PathBuf> = outcomes
-        .iter()
-        .map(|o| o.dir.join("facts.json"))
-        .collect();
+    let facts: Vec<PathBuf> = outcomes.iter().map(|o| o.dir.join("facts.json")).collect();
     let mut manifest = String::new();
     for i in 0..n {
         manifest.push_str(&format!(

@@ -434,3 +434,26 @@ proptest::proptest! {
         proptest::prop_assert!(s.execute("ask Liver SubClassOf Organ").is_ok());
     }
 }
+
+#[test]
+fn regression_cases_run_against_the_edited_session_kb() {
+    // The demo cases' hand-derived expectations (tests/fixtures/check/demo/cases.toml) hold
+    // on the shipped ontology; once the session makes SimpleHepaticCyst unsatisfiable, the
+    // deep liver lesion's top explanation must change (the cyst had the highest prior, 0.30)
+    // and exactly that case fails, while the files on disk are untouched.
+    let mut s = Session::default();
+    s.load_files(&[PathBuf::from("ontologies/abdomen.ofn")])
+        .unwrap();
+    let before = s
+        .execute("check tests/fixtures/check/demo/cases.toml")
+        .unwrap();
+    assert!(before.contains("3 passed, 0 failed"), "{before}");
+    s.execute("add SimpleHepaticCyst SubClassOf owl:Nothing")
+        .unwrap();
+    let after = s
+        .execute("check tests/fixtures/check/demo/cases.toml")
+        .unwrap();
+    assert!(after.contains("FAIL  deep-liver-lesion"), "{after}");
+    assert!(after.contains("2 passed, 1 failed"), "{after}");
+    assert!(s.execute("check").is_err());
+}

@@ -31,6 +31,9 @@ pub struct RunOptions {
     pub timeout: Duration,
     /// Largest completion graph of one test.
     pub max_graph_nodes: usize,
+    /// A KB already loaded (the shell's, with its edits), used for every case instead of
+    /// the files the cases name.
+    pub kb: Option<Arc<KnowledgeBase>>,
 }
 
 impl Default for RunOptions {
@@ -41,6 +44,7 @@ impl Default for RunOptions {
             explain_always: false,
             timeout: Duration::from_secs(120),
             max_graph_nodes: 1_000_000,
+            kb: None,
         }
     }
 }
@@ -150,7 +154,10 @@ pub fn run_suite(cases: &[CaseSpec], opts: &RunOptions) -> Vec<CaseResult> {
     let loaded: BTreeMap<Vec<PathBuf>, Result<Arc<KnowledgeBase>, String>> = sets
         .into_par_iter()
         .map(|s| {
-            let kb = owl::load(&s, &lo).map(Arc::new).map_err(|e| e.to_string());
+            let kb = match &opts.kb {
+                Some(kb) => Ok(kb.clone()),
+                None => owl::load(&s, &lo).map(Arc::new).map_err(|e| e.to_string()),
+            };
             (s, kb)
         })
         .collect();

@@ -127,6 +127,12 @@ pub const COMMANDS: &[CommandHelp] = &[
         example: "unsat",
     },
     CommandHelp {
+        name: "check",
+        usage: "check PATH...",
+        summary: "Run regression cases (case files, or folders of them) against the session's KB, edits included, instead of the files the cases name.",
+        example: "check examples/cases.toml",
+    },
+    CommandHelp {
         name: "import",
         usage: "import FACTS.json as observations|background [--alpha A]",
         summary: "Read a facts file: as observations for `explain`, or as background assertions (an undoable edit, α-cut at A, default 0.5).",
@@ -232,6 +238,7 @@ pub fn execute(s: &mut Session, line: &str) -> Result<String, ShellError> {
         "tree" => tree(s, &l),
         "unsat" => unsat(s),
         "import" => import(s, &l),
+        "check" => check_cmd(s, &l),
         "save" => save(s, &l),
         "quit" | "exit" => {
             s.quit = true;
@@ -260,6 +267,31 @@ pub fn execute(s: &mut Session, line: &str) -> Result<String, ShellError> {
             ))
         }
     }
+}
+
+/// `check PATH...`: the regression cases run on the in-memory KB.
+fn check_cmd(s: &mut Session, l: &Line) -> Result<String, ShellError> {
+    let ws = words(l)?;
+    if ws.is_empty() {
+        return Err(l.err(
+            "give case files or folders of them, e.g. check cases.toml",
+            l.off,
+        ));
+    }
+    let paths: Vec<PathBuf> = ws.iter().map(|(w, _)| PathBuf::from(w)).collect();
+    let suite = crate::check::load_paths(&paths).map_err(|e| l.err(e.to_string(), l.off))?;
+    let opts = crate::check::RunOptions {
+        kb: Some(std::sync::Arc::new(s.kb().clone())),
+        ..Default::default()
+    };
+    let start = Instant::now();
+    let results = crate::check::run_suite(&suite.cases, &opts);
+    let mut out = String::new();
+    for r in &results {
+        out.push_str(&crate::check::diff::case_text(r));
+    }
+    out.push_str(&crate::check::diff::summary(&results, start.elapsed()));
+    Ok(out)
 }
 
 /// Whitespace-separated words of the argument (double quotes group), with offsets.

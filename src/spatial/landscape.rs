@@ -77,6 +77,7 @@ pub fn structuring_element(v: [f64; 3], d: [f64; 3]) -> f64 {
 
 /// arccos by Abramowitz & Stegun 1964, formula 4.4.46 (|error| ≤ 2·10⁻⁸ rad on [0, 1]),
 /// extended to [−1, 0) by acos(−x) = π − acos(x); about three times cheaper than libm's.
+#[inline(always)]
 pub fn acos_fast(x: f64) -> f64 {
     const A: [f64; 8] = [
         1.570_796_305_0,
@@ -197,7 +198,8 @@ impl Source for SliceState {
     }
 }
 
-/// A copy of one row, used when source and target rows lie in the same slice.
+/// A copy of one row, used when source and target rows lie in the same slice (the buffer
+/// lives for the whole pass, so no row allocates).
 struct RowCopy {
     start: usize,
     x: Vec<f32>,
@@ -213,6 +215,26 @@ impl Source for RowCopy {
     }
 }
 
+impl RowCopy {
+    fn new(n: usize) -> Self {
+        RowCopy {
+            start: 0,
+            x: vec![0.0; n],
+            y: vec![0.0; n],
+            z: vec![0.0; n],
+        }
+    }
+
+    /// Copies row `src` (length `n`) of a slice state.
+    #[inline(always)]
+    fn fill(&mut self, from: &SliceState, src: usize, n: usize) {
+        self.start = src;
+        self.x[..n].copy_from_slice(&from.x[src..src + n]);
+        self.y[..n].copy_from_slice(&from.y[src..src + n]);
+        self.z[..n].copy_from_slice(&from.z[src..src + n]);
+    }
+}
+
 impl SliceState {
     fn new(n: usize) -> Self {
         SliceState {
@@ -222,42 +244,48 @@ impl SliceState {
         }
     }
 
+    #[inline(always)]
     fn load(&mut self, ox: &[i16], oy: &[i16], oz: &[i16]) {
-        for i in 0..ox.len() {
-            self.x[i] = if ox[i] == NONE {
+        let n = ox.len();
+        let (x, y, z) = (&mut self.x[..n], &mut self.y[..n], &mut self.z[..n]);
+        let (oy, oz) = (&oy[..n], &oz[..n]);
+        for i in 0..n {
+            x[i] = if ox[i] == NONE {
                 f32::NAN
             } else {
                 ox[i] as f32
             };
-            self.y[i] = oy[i] as f32;
-            self.z[i] = oz[i] as f32;
+            y[i] = oy[i] as f32;
+            z[i] = oz[i] as f32;
         }
     }
 
+    #[inline(always)]
     fn store(&self, ox: &mut [i16], oy: &mut [i16], oz: &mut [i16]) {
-        for i in 0..ox.len() {
-            let x = self.x[i];
-            ox[i] = if x.is_nan() { NONE } else { x as i16 };
-            oy[i] = self.y[i] as i16;
-            oz[i] = self.z[i] as i16;
+        let n = ox.len();
+        let (x, y, z) = (&self.x[..n], &self.y[..n], &self.z[..n]);
+        let (oy, oz) = (&mut oy[..n], &mut oz[..n]);
+        for i in 0..n {
+            // The values are whole numbers inside the i16 range (the box is smaller than
+            // 32767 cells along each axis) and NaN is mapped to NONE first, so the unchecked
+            // conversion is exact; it avoids the saturating cast's fix-ups.
+            let xv = if x[i].is_nan() { NONE as f32 } else { x[i] };
+            // SAFETY: xv, y[i], z[i] are finite and within i32 range (see above).
+            unsafe {
+                ox[i] = xv.to_int_unchecked::<i32>() as i16;
+                oy[i] = y[i].to_int_unchecked::<i32>() as i16;
+                oz[i] = z[i].to_int_unchecked::<i32>() as i16;
+            }
         }
-    }
-
-    /// A copy of the source row and the state itself (the target row is written in place).
-    fn split_rows(&mut self, src: usize, _row: usize, n: usize) -> (RowCopy, &mut SliceState) {
-        let copy = RowCopy {
-            start: src,
-            x: self.x[src..src + n].to_vec(),
-            y: self.y[src..src + n].to_vec(),
-            z: self.z[src..src + n].to_vec(),
-        };
-        (copy, self)
     }
 }
 
 /// The numerator c·|c| and denominator |w|² of the angle key of index vector (a, b, c).
+/// `AX` < 3: the direction is the world axis `AX` (d has one non-zero entry, ±1), so the
+/// dot product is that one term; the other two terms of the general sum are ±0 and add
+/// nothing, so the value is bit for bit the general one.
 #[inline(always)]
-fn key_parts<const DIAG: bool>(
+fn key_parts<const DIAG: bool, const AX: usize>(
     l: &[[f32; 3]; 3],
     d: &[f32; 3],
     a: f32,
@@ -274,7 +302,12 @@ fn key_parts<const DIAG: bool>(
             l[2][0] * a + l[2][1] * b + l[2][2] * c,
         )
     };
-    let cc = w0 * d[0] + w1 * d[1] + w2 * d[2];
+    let cc = match AX {
+        0 => w0 * d[0],
+        1 => w1 * d[1],
+        2 => w2 * d[2],
+        _ => w0 * d[0] + w1 * d[1] + w2 * d[2],
+    };
     (cc * cc.abs(), w0 * w0 + w1 * w1 + w2 * w2)
 }
 
@@ -282,7 +315,7 @@ fn key_parts<const DIAG: bool>(
 /// di = −1, 0, 1 along the row. `e` = (−dj, −dk) of the neighbour, i.e. here − neighbour.
 #[allow(clippy::too_many_arguments)]
 #[inline(always)]
-fn relax_row<S: Source, const DIAG: bool>(
+fn relax_row<S: Source, const DIAG: bool, const AX: usize>(
     l: &[[f32; 3]; 3],
     d: &[f32; 3],
     from: &S,
@@ -313,7 +346,7 @@ fn relax_row<S: Source, const DIAG: bool>(
         let rz = &mut cur.z[row + i0..row + i0 + n];
         for t in 0..n {
             let (ca, cb, cc) = (sx[t] + ex, sy[t] + e[0], sz[t] + e[1]);
-            let (kn, n2) = key_parts::<DIAG>(l, d, ca, cb, cc);
+            let (kn, n2) = key_parts::<DIAG, AX>(l, d, ca, cb, cc);
             // NaN (no origin) compares false.
             let better = kn * kd_[t] > kn_[t] * n2;
             kn_[t] = if better { kn } else { kn_[t] };
@@ -366,58 +399,100 @@ impl FastLandscape {
             linear: fine_linear.map(|r| r.map(|v| (v * f as f64) as f32)),
             direction: d.map(|v| v as f32),
         };
-        for p in reference.iter() {
-            let (i, j, k) = (p[0] - lo[0], p[1] - lo[1], p[2] - lo[2]);
-            if i >= 0
-                && j >= 0
-                && k >= 0
-                && (i as usize) < dims[0]
-                && (j as usize) < dims[1]
-                && (k as usize) < dims[2]
-            {
-                let (i, j, k) = (i as usize / f, j as usize / f, k as usize / f);
-                me.ox[i + nx * (j + ny * k)] = 0;
+        // The first slice holding a reference cell (nz when there is none).
+        let mut first_k = nz;
+        // Cell x index of each box column, so that marking needs no division per voxel.
+        let cell_x: Vec<usize> = (0..dims[0]).map(|i| i / f).collect();
+        let [rx, ry, rz] = reference.dims;
+        for rk in 0..rz {
+            let k = reference.lo[2] + rk as i64 - lo[2];
+            if k < 0 || k as usize >= dims[2] {
+                continue;
+            }
+            for rj in 0..ry {
+                let j = reference.lo[1] + rj as i64 - lo[1];
+                if j < 0 || j as usize >= dims[1] {
+                    continue;
+                }
+                let start = rx * (rj + ry * rk);
+                let row = &reference.bits[start..start + rx];
+                if !row.contains(&true) {
+                    continue;
+                }
+                let (cj, ck) = (j as usize / f, k as usize / f);
+                let base = nx * (cj + ny * ck);
+                for (ri, &b) in row.iter().enumerate() {
+                    let i = reference.lo[0] + ri as i64 - lo[0];
+                    if b && i >= 0 && (i as usize) < dims[0] {
+                        me.ox[base + cell_x[i as usize]] = 0;
+                        first_k = first_k.min(ck);
+                    }
+                }
             }
         }
-        me.pass(true);
-        me.pass(false);
+        me.pass(true, first_k);
+        me.pass(false, 0);
         me
     }
 
-    fn pass(&mut self, forward: bool) {
+    /// One raster pass; the forward pass starts at slice `first_k` (every earlier slice holds
+    /// no reference cell and can receive no origin in that pass, so it is left as it is).
+    fn pass(&mut self, forward: bool, first_k: usize) {
         #[cfg(target_arch = "x86_64")]
         {
+            if std::is_x86_feature_detected!("avx512f")
+                && std::is_x86_feature_detected!("avx512vl")
+                && std::is_x86_feature_detected!("avx512bw")
+                && std::is_x86_feature_detected!("avx512dq")
+                && std::is_x86_feature_detected!("fma")
+            {
+                // SAFETY: the CPU supports the features the function is compiled for.
+                unsafe { self.pass_avx512(forward, first_k) };
+                return;
+            }
             if std::is_x86_feature_detected!("avx2") && std::is_x86_feature_detected!("fma") {
                 // SAFETY: the CPU supports the features the function is compiled for.
-                unsafe { self.pass_avx2(forward) };
+                unsafe { self.pass_avx2(forward, first_k) };
                 return;
             }
         }
-        self.pass_dispatch(forward);
+        self.pass_dispatch(forward, first_k);
     }
 
-    /// Chooses the diagonal-affine specialisation.
+    /// Chooses the diagonal-affine and axis-direction specialisations.
     #[inline(always)]
-    fn pass_dispatch(&mut self, forward: bool) {
+    fn pass_dispatch(&mut self, forward: bool, first_k: usize) {
         let l = self.linear;
-        if l[0][1] == 0.0
+        let diag = l[0][1] == 0.0
             && l[0][2] == 0.0
             && l[1][0] == 0.0
             && l[1][2] == 0.0
             && l[2][0] == 0.0
-            && l[2][1] == 0.0
-        {
-            self.pass_impl::<true>(forward);
-        } else {
-            self.pass_impl::<false>(forward);
+            && l[2][1] == 0.0;
+        let d = self.direction;
+        let axis = (0..3).find(|&a| (0..3).all(|b| b == a || d[b] == 0.0));
+        match (diag, axis) {
+            (true, Some(0)) => self.pass_impl::<true, 0>(forward, first_k),
+            (true, Some(1)) => self.pass_impl::<true, 1>(forward, first_k),
+            (true, Some(2)) => self.pass_impl::<true, 2>(forward, first_k),
+            (true, _) => self.pass_impl::<true, 3>(forward, first_k),
+            (false, _) => self.pass_impl::<false, 3>(forward, first_k),
         }
     }
 
     /// The same pass compiled for AVX2 and FMA (8 lanes of f32).
     #[cfg(target_arch = "x86_64")]
     #[target_feature(enable = "avx2,fma")]
-    unsafe fn pass_avx2(&mut self, forward: bool) {
-        self.pass_dispatch(forward);
+    unsafe fn pass_avx2(&mut self, forward: bool, first_k: usize) {
+        self.pass_dispatch(forward, first_k);
+    }
+
+    /// The same pass compiled for AVX-512 (16 lanes of f32). Rust never fuses a product and
+    /// a sum on its own, so every lane computes the same values as the scalar code.
+    #[cfg(target_arch = "x86_64")]
+    #[target_feature(enable = "avx512f,avx512vl,avx512bw,avx512dq,avx2,fma")]
+    unsafe fn pass_avx512(&mut self, forward: bool, first_k: usize) {
+        self.pass_dispatch(forward, first_k);
     }
 
     /// One raster pass. The state of the slice being swept and of the slice before it is
@@ -425,7 +500,7 @@ impl FastLandscape {
     /// num/den and compared by cross-multiplication, so the inner loops have no division
     /// and no branch.
     #[inline(always)]
-    fn pass_impl<const DIAG: bool>(&mut self, forward: bool) {
+    fn pass_impl<const DIAG: bool, const AX: usize>(&mut self, forward: bool, first_k: usize) {
         let [nx, ny, nz] = self.cdims;
         let plane = nx * ny;
         let l = self.linear;
@@ -433,10 +508,11 @@ impl FastLandscape {
         let sgn: i64 = if forward { 1 } else { -1 };
         let mut prev = SliceState::new(plane);
         let mut cur = SliceState::new(plane);
+        let mut copy = RowCopy::new(nx);
         let mut num = vec![0.0f32; nx];
         let mut den = vec![0.0f32; nx];
         let ks: Vec<usize> = if forward {
-            (0..nz).collect()
+            (first_k.min(nz)..nz).collect()
         } else {
             (0..nz).rev().collect()
         };
@@ -456,25 +532,32 @@ impl FastLandscape {
             for &j in &js {
                 let row = nx * j;
                 // Keys of the current state.
-                for i in 0..nx {
-                    let (kn, n2) =
-                        key_parts::<DIAG>(&l, &d, cur.x[row + i], cur.y[row + i], cur.z[row + i]);
-                    let none = cur.x[row + i].is_nan();
-                    let origin = n2 == 0.0;
-                    num[i] = if none {
-                        -2.0
-                    } else if origin {
-                        1.0
-                    } else {
-                        kn
-                    };
-                    den[i] = if none {
-                        1.0
-                    } else if origin {
-                        0.0
-                    } else {
-                        n2
-                    };
+                {
+                    let (cx, cy, cz) = (
+                        &cur.x[row..row + nx],
+                        &cur.y[row..row + nx],
+                        &cur.z[row..row + nx],
+                    );
+                    let (num, den) = (&mut num[..nx], &mut den[..nx]);
+                    for i in 0..nx {
+                        let (kn, n2) = key_parts::<DIAG, AX>(&l, &d, cx[i], cy[i], cz[i]);
+                        let none = cx[i].is_nan();
+                        let origin = n2 == 0.0;
+                        num[i] = if none {
+                            -2.0
+                        } else if origin {
+                            1.0
+                        } else {
+                            kn
+                        };
+                        den[i] = if none {
+                            1.0
+                        } else if origin {
+                            0.0
+                        } else {
+                            n2
+                        };
+                    }
                 }
                 // Neighbours in earlier rows: three in the previous slice's rows j−1..j+1
                 // (dk = −s) and one row j−s of this slice, each with di = −1, 0, 1.
@@ -482,7 +565,7 @@ impl FastLandscape {
                     let jj = j as i64 + dj;
                     if have_prev && jj >= 0 && jj < ny as i64 {
                         let src = nx * jj as usize;
-                        relax_row::<_, DIAG>(
+                        relax_row::<_, DIAG, AX>(
                             &l,
                             &d,
                             &prev,
@@ -499,14 +582,14 @@ impl FastLandscape {
                 let jj = j as i64 - sgn;
                 if jj >= 0 && jj < ny as i64 {
                     let src = nx * jj as usize;
-                    let (head, tail) = cur.split_rows(src, row, nx);
-                    relax_row::<_, DIAG>(
+                    copy.fill(&cur, src, nx);
+                    relax_row::<_, DIAG, AX>(
                         &l,
                         &d,
-                        &head,
+                        &copy,
                         src,
                         [sgn as f32, 0.0],
-                        tail,
+                        &mut cur,
                         row,
                         &mut num,
                         &mut den,
@@ -515,15 +598,21 @@ impl FastLandscape {
                 }
                 // The neighbour in the same row, swept in pass order.
                 let step = sgn as f32;
+                let (cx, cy, cz) = (
+                    &mut cur.x[row..row + nx],
+                    &mut cur.y[row..row + nx],
+                    &mut cur.z[row..row + nx],
+                );
+                let (num, den) = (&mut num[..nx], &mut den[..nx]);
                 let mut sweep = |i: usize, p: usize| {
-                    let (ca, cb, cc) = (cur.x[row + p] + step, cur.y[row + p], cur.z[row + p]);
-                    let (kn, n2) = key_parts::<DIAG>(&l, &d, ca, cb, cc);
+                    let (ca, cb, cc) = (cx[p] + step, cy[p], cz[p]);
+                    let (kn, n2) = key_parts::<DIAG, AX>(&l, &d, ca, cb, cc);
                     if kn * den[i] > num[i] * n2 {
                         num[i] = kn;
                         den[i] = n2;
-                        cur.x[row + i] = ca;
-                        cur.y[row + i] = cb;
-                        cur.z[row + i] = cc;
+                        cx[i] = ca;
+                        cy[i] = cb;
+                        cz[i] = cc;
                     }
                 };
                 if forward {
@@ -553,22 +642,64 @@ impl FastLandscape {
 
     /// The degree of a cell, read at its centre (for factor 1, the voxel's own degree).
     pub fn cell_degree(&self, c: usize) -> f64 {
-        if self.ox[c] == NONE {
-            return 0.0;
+        let d = self.direction.map(|x| x as f64);
+        cell_degree_of(
+            self.ox[c],
+            self.oy[c],
+            self.oz[c],
+            self.factor as f64,
+            &self.fine_linear,
+            d,
+        )
+    }
+
+    /// [`FastLandscape::cell_degree`] of many cells at once, written to `out` in the order
+    /// of `cells` (each given with a weight that is passed through). The same arithmetic,
+    /// laid out so that the compiler can run it on vector lanes.
+    pub fn cell_degrees(&self, cells: &[(usize, u32)], out: &mut Vec<(f64, u32)>) {
+        let n = cells.len();
+        let mut o = [vec![0i16; n], vec![0i16; n], vec![0i16; n]];
+        for (t, &(c, _)) in cells.iter().enumerate() {
+            o[0][t] = self.ox[c];
+            o[1][t] = self.oy[c];
+            o[2][t] = self.oz[c];
         }
+        let mut deg = vec![0.0f64; n];
+        #[cfg(target_arch = "x86_64")]
+        {
+            if std::is_x86_feature_detected!("avx512f")
+                && std::is_x86_feature_detected!("avx512vl")
+                && std::is_x86_feature_detected!("avx512dq")
+                && std::is_x86_feature_detected!("avx512bw")
+            {
+                // SAFETY: the CPU supports the features the function is compiled for.
+                unsafe { self.degrees_avx512(&o, &mut deg) };
+            } else {
+                self.degrees_plain(&o, &mut deg);
+            }
+        }
+        #[cfg(not(target_arch = "x86_64"))]
+        self.degrees_plain(&o, &mut deg);
+        out.clear();
+        out.extend(deg.into_iter().zip(cells.iter().map(|&(_, w)| w)));
+    }
+
+    #[inline(always)]
+    fn degrees_plain(&self, o: &[Vec<i16>; 3], deg: &mut [f64]) {
+        let d = self.direction.map(|x| x as f64);
         let f = self.factor as f64;
-        let v = [
-            self.ox[c] as f64 * f,
-            self.oy[c] as f64 * f,
-            self.oz[c] as f64 * f,
-        ];
-        let l = &self.fine_linear;
-        let w = [
-            l[0][0] * v[0] + l[0][1] * v[1] + l[0][2] * v[2],
-            l[1][0] * v[0] + l[1][1] * v[1] + l[1][2] * v[2],
-            l[2][0] * v[0] + l[2][1] * v[1] + l[2][2] * v[2],
-        ];
-        structuring_element_fast(w, self.direction.map(|x| x as f64))
+        let l = self.fine_linear;
+        let n = deg.len();
+        let (ox, oy, oz) = (&o[0][..n], &o[1][..n], &o[2][..n]);
+        for t in 0..n {
+            deg[t] = cell_degree_of(ox[t], oy[t], oz[t], f, &l, d);
+        }
+    }
+
+    #[cfg(target_arch = "x86_64")]
+    #[target_feature(enable = "avx512f,avx512vl,avx512bw,avx512dq,avx2")]
+    unsafe fn degrees_avx512(&self, o: &[Vec<i16>; 3], deg: &mut [f64]) {
+        self.degrees_plain(o, deg);
     }
 
     /// The degree at a global voxel (0 outside the box or where no origin was found).
@@ -605,6 +736,33 @@ impl FastLandscape {
 
     /// Bytes of state per propagation cell.
     pub const BYTES_PER_CELL: usize = 6;
+}
+
+/// The degree of a cell whose origin vector (in cells) is (x, y, z): the structuring
+/// element ([`structuring_element_fast`]) of the world vector between the two cell centres.
+/// Branch-free, so that a loop over cells runs on vector lanes; the values are those of the
+/// scalar formula. A negative cosine gives 0 (an angle above π/2, where the approximate
+/// arccos stays above π/2 too).
+#[inline(always)]
+fn cell_degree_of(x: i16, y: i16, z: i16, f: f64, l: &[[f64; 3]; 3], d: [f64; 3]) -> f64 {
+    let v = [x as f64 * f, y as f64 * f, z as f64 * f];
+    let w = [
+        l[0][0] * v[0] + l[0][1] * v[1] + l[0][2] * v[2],
+        l[1][0] * v[0] + l[1][1] * v[1] + l[1][2] * v[2],
+        l[2][0] * v[0] + l[2][1] * v[1] + l[2][2] * v[2],
+    ];
+    let dot = w[0] * d[0] + w[1] * d[1] + w[2] * d[2];
+    let n2 = w[0] * w[0] + w[1] * w[1] + w[2] * w[2];
+    let c = (dot / n2.sqrt()).clamp(-1.0, 1.0);
+    let acos = acos_fast(c);
+    let value = (1.0 - FRAC_2_PI * acos).max(0.0);
+    if x == NONE || dot < 0.0 {
+        0.0
+    } else if n2 == 0.0 {
+        1.0
+    } else {
+        value
+    }
 }
 
 /// Number of propagation cells of a box of `dims` voxels at coarsening `factor`.

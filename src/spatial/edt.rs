@@ -10,15 +10,25 @@ use rayon::prelude::*;
 /// Squared distance, in mm², from every voxel centre of a `dims` box to the nearest voxel
 /// centre where `feature` is true; `f64::INFINITY` everywhere when there is no feature.
 pub fn edt_squared(dims: [usize; 3], spacing: [f64; 3], feature: &[bool]) -> Vec<f64> {
+    let mut d = Vec::new();
+    edt_squared_into(dims, spacing, feature, &mut d);
+    d
+}
+
+/// [`edt_squared`] written into `d` (resized to the box), so that a caller running many
+/// transforms reuses one buffer instead of faulting in fresh pages for each.
+pub fn edt_squared_into(dims: [usize; 3], spacing: [f64; 3], feature: &[bool], d: &mut Vec<f64>) {
     let [nx, ny, nz] = dims;
     assert_eq!(
         feature.len(),
         nx * ny * nz,
         "feature mask size must match dims"
     );
-    let mut d: Vec<f64> = vec![0.0; feature.len()];
+    // Every entry is written by the first axis pass.
+    d.clear();
+    d.resize(feature.len(), 0.0);
     if d.is_empty() {
-        return d;
+        return;
     }
     // Axis i: lines are contiguous rows. With a binary input the 1D transform is the
     // squared distance to the nearest feature in the row: two scans, no envelope needed.
@@ -120,7 +130,6 @@ pub fn edt_squared(dims: [usize; 3], spacing: [f64; 3], feature: &[bool]) -> Vec
             },
         );
     }
-    d
 }
 
 /// Distance (mm) from every voxel centre to the nearest feature voxel centre.

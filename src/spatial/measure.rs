@@ -3,7 +3,7 @@
 use super::SpatialError;
 use super::affine::round_to;
 use super::config::MeasureConfig;
-use super::edt::edt_squared;
+use super::edt::{edt_squared, edt_squared_into};
 use super::landscape::{Direction, FastLandscape, LandscapeMode, cell_count, exact_degree};
 use super::mask::{Adjacency, Mask};
 use super::nifti_io::LabelMap;
@@ -318,6 +318,9 @@ pub fn measure(
         p.dedup();
     }
     // directed[(y, x)] = (min over y of d(·, X), max over y of d(·, X))
+    // Feature and distance buffers, handed from one region to the next: the boxes are
+    // often the whole volume, and fresh pages for each transform cost more than the reuse.
+    let pool: std::sync::Mutex<Vec<(Vec<bool>, Vec<f64>)>> = std::sync::Mutex::new(Vec::new());
     let directed: BTreeMap<(usize, usize), (f64, f64)> = (0..n)
         .into_par_iter()
         .filter(|&x| !partners[x].is_empty())
@@ -326,16 +329,25 @@ pub fn measure(
                 .chain(partners[x].iter().map(|&y| &regions[y].mask))
                 .collect();
             let (lo, dims) = union_box(&boxes);
-            let feat = paint(&regions[x].mask, lo, dims);
+            let (mut feat, mut d) = pool
+                .lock()
+                .unwrap_or_else(|e| e.into_inner())
+                .pop()
+                .unwrap_or_default();
+            paint_into(&regions[x].mask, lo, dims, &mut feat);
             // Squared distances; square roots only for the two values kept per partner.
-            let d = edt_squared(dims, spacing, &feat);
-            partners[x]
+            edt_squared_into(dims, spacing, &feat, &mut d);
+            let out: Vec<_> = partners[x]
                 .iter()
                 .map(|&y| {
                     let (mn, mx) = min_max_in_box(&regions[y].mask, lo, dims, &d);
                     ((y, x), (mn.sqrt(), mx.sqrt()))
                 })
-                .collect::<Vec<_>>()
+                .collect();
+            pool.lock()
+                .unwrap_or_else(|e| e.into_inner())
+                .push((feat, d));
+            out
         })
         .collect();
 
@@ -672,11 +684,18 @@ pub fn union_box(masks: &[&Mask]) -> ([i64; 3], [usize; 3]) {
 
 /// Paints a mask into a box as a flat boolean array.
 pub fn paint(mask: &Mask, lo: [i64; 3], dims: [usize; 3]) -> Vec<bool> {
-    let mut out = vec![false; dims[0] * dims[1] * dims[2]];
+    let mut out = Vec::new();
+    paint_into(mask, lo, dims, &mut out);
+    out
+}
+
+/// [`paint`] into a reused buffer (resized to the box).
+pub fn paint_into(mask: &Mask, lo: [i64; 3], dims: [usize; 3], out: &mut Vec<bool>) {
+    out.clear();
+    out.resize(dims[0] * dims[1] * dims[2], false);
     for p in mask.iter() {
         out[lin(p, lo, dims)] = true;
     }
-    out
 }
 
 #[inline]

@@ -350,6 +350,8 @@ pub fn measure(
             out
         })
         .collect();
+    // The buffers are not needed past this stage; keep them out of the later peaks.
+    drop(pool);
 
     // Depth: distance from each voxel inside an extent to the nearest voxel outside it.
     let contained: Vec<(usize, usize)> = plan

@@ -61,6 +61,44 @@ fn a_target_on_the_ray_has_necessity_and_possibility_one() {
     assert!((fast.degree([4, 6, 5]) - 0.704833).abs() < 5e-7);
 }
 
+#[test]
+fn the_two_thread_pass_equals_the_one_thread_pass() {
+    // Invariance (common practice for a parallel rewrite): each slice of the two-pass
+    // propagation (Bloch 1999 §4) must see the same neighbour states whether its passes run
+    // on one thread or as a two-thread slice pipeline, so the landscapes are equal cell for
+    // cell. The box holds 4 199 202 cells, above PIPELINE_MIN_CELLS = 2^22, so two threads
+    // are used; a diagonal grid and an oblique one (the specialised and the general code).
+    let dims = [161, 161, 162];
+    assert!(dims.iter().product::<usize>() >= wherefore::spatial::landscape::PIPELINE_MIN_CELLS);
+    let mut vox = Vec::new();
+    for k in 60..75 {
+        for j in 70..100 {
+            for i in 40..60 {
+                if (i + j + k) % 3 != 0 {
+                    vox.push([i, j, k]);
+                }
+            }
+        }
+    }
+    vox.push([150, 10, 150]);
+    let reference = Mask::from_voxels(&vox);
+    let grids = [
+        Affine::diagonal([1.0, 0.8, 1.2], [0.0; 3]),
+        oblique_affine([0.9, 1.0, 1.3], 0.4, [0.0; 3], true),
+    ];
+    for (g, aff) in grids.iter().enumerate() {
+        let d = if g == 0 {
+            Direction::Inferior.vector()
+        } else {
+            Direction::Left.vector()
+        };
+        let one = FastLandscape::compute_threads(&reference, [0, 0, 0], dims, aff, d, 1, 1);
+        let two = FastLandscape::compute_threads(&reference, [0, 0, 0], dims, aff, d, 1, 2);
+        assert!(one == two, "grid {g}: the two-thread landscape differs");
+        assert!(one.degree([50, 85, 30]) > 0.0 || one.degree([50, 85, 100]) > 0.0);
+    }
+}
+
 /// Largest |fast − exact| over a box, for a reference mask.
 fn fast_error(reference: &Mask, dims: [usize; 3], aff: &Affine, d: [f64; 3]) -> f64 {
     let fast = FastLandscape::compute(reference, [0, 0, 0], dims, aff, d);

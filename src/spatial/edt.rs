@@ -10,15 +10,25 @@ use rayon::prelude::*;
 /// Squared distance, in mm², from every voxel centre of a `dims` box to the nearest voxel
 /// centre where `feature` is true; `f64::INFINITY` everywhere when there is no feature.
 pub fn edt_squared(dims: [usize; 3], spacing: [f64; 3], feature: &[bool]) -> Vec<f64> {
+    let mut d = Vec::new();
+    edt_squared_into(dims, spacing, feature, &mut d);
+    d
+}
+
+/// [`edt_squared`] written into `d` (resized to the box), so that a caller running many
+/// transforms reuses one buffer instead of faulting in fresh pages for each.
+pub fn edt_squared_into(dims: [usize; 3], spacing: [f64; 3], feature: &[bool], d: &mut Vec<f64>) {
     let [nx, ny, nz] = dims;
     assert_eq!(
         feature.len(),
         nx * ny * nz,
         "feature mask size must match dims"
     );
-    let mut d: Vec<f64> = vec![0.0; feature.len()];
+    // Every entry is written by the first axis pass.
+    d.clear();
+    d.resize(feature.len(), 0.0);
     if d.is_empty() {
-        return d;
+        return;
     }
     // Axis i: lines are contiguous rows. With a binary input the 1D transform is the
     // squared distance to the nearest feature in the row: two scans, no envelope needed.
@@ -46,27 +56,44 @@ pub fn edt_squared(dims: [usize; 3], spacing: [f64; 3], feature: &[bool]) -> Vec
     // Axis j: lines inside each k-slab, gathered row by row into a transposed buffer so
     // that memory is read and written in order.
     if ny > 1 {
-        d.par_chunks_mut(nx * ny).for_each_init(
-            || (Scratch::new(ny), vec![0.0f64; nx * ny]),
-            |(s, t), slab| {
-                for j in 0..ny {
-                    for i in 0..nx {
-                        t[i * ny + j] = slab[i + nx * j];
+        // A slab without a feature voxel is infinite after the first axis and stays so: it
+        // is skipped (for a small region in a large box, most slabs are).
+        let slab_has: Vec<bool> = feature
+            .par_chunks(nx * ny)
+            .map(|c| c.contains(&true))
+            .collect();
+        d.par_chunks_mut(nx * ny)
+            .zip(slab_has.par_iter())
+            .for_each_init(
+                || (Scratch::new(ny), vec![0.0f64; nx * ny]),
+                |(s, t), (slab, &has)| {
+                    if !has {
+                        return;
                     }
-                }
-                for i in 0..nx {
-                    let line = &mut t[i * ny..(i + 1) * ny];
-                    s.f[..ny].copy_from_slice(line);
-                    lower_envelope(&s.f[..ny], spacing[1], &mut s.out[..ny], &mut s.v, &mut s.z);
-                    line.copy_from_slice(&s.out[..ny]);
-                }
-                for j in 0..ny {
-                    for i in 0..nx {
-                        slab[i + nx * j] = t[i * ny + j];
+                    for j in 0..ny {
+                        for i in 0..nx {
+                            t[i * ny + j] = slab[i + nx * j];
+                        }
                     }
-                }
-            },
-        );
+                    for i in 0..nx {
+                        let line = &mut t[i * ny..(i + 1) * ny];
+                        s.f[..ny].copy_from_slice(line);
+                        lower_envelope(
+                            &s.f[..ny],
+                            spacing[1],
+                            &mut s.out[..ny],
+                            &mut s.v,
+                            &mut s.z,
+                        );
+                        line.copy_from_slice(&s.out[..ny]);
+                    }
+                    for j in 0..ny {
+                        for i in 0..nx {
+                            slab[i + nx * j] = t[i * ny + j];
+                        }
+                    }
+                },
+            );
     }
     // Axis k: for each j, the (i, k) plane is gathered into a transposed buffer (reading
     // whole rows of i), transformed line by line, and scattered back. Each j belongs to
@@ -103,7 +130,6 @@ pub fn edt_squared(dims: [usize; 3], spacing: [f64; 3], feature: &[bool]) -> Vec
             },
         );
     }
-    d
 }
 
 /// Distance (mm) from every voxel centre to the nearest feature voxel centre.

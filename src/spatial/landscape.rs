@@ -10,6 +10,7 @@
 use super::affine::Affine;
 use super::mask::Mask;
 use std::f64::consts::FRAC_2_PI;
+use std::sync::atomic::{AtomicBool, AtomicUsize, Ordering};
 
 /// The six anatomical directions in RAS world space.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, PartialOrd, Ord)]
@@ -77,6 +78,7 @@ pub fn structuring_element(v: [f64; 3], d: [f64; 3]) -> f64 {
 
 /// arccos by Abramowitz & Stegun 1964, formula 4.4.46 (|error| ≤ 2·10⁻⁸ rad on [0, 1]),
 /// extended to [−1, 0) by acos(−x) = π − acos(x); about three times cheaper than libm's.
+#[inline(always)]
 pub fn acos_fast(x: f64) -> f64 {
     const A: [f64; 8] = [
         1.570_796_305_0,
@@ -162,6 +164,7 @@ const NONE: i16 = i16::MIN;
 /// follow it (the backward pass). The 12 neighbours in earlier rows are handled a whole row
 /// at a time in branch-free loops the compiler vectorises; the one in the same row is
 /// handled by a sequential sweep along the row.
+#[derive(PartialEq)]
 pub struct FastLandscape {
     /// Global index of the box's first voxel.
     pub lo: [i64; 3],
@@ -178,86 +181,117 @@ pub struct FastLandscape {
     direction: [f32; 3],
 }
 
+/// Boxes with at least this many propagation cells run each raster pass on two threads
+/// (a slice pipeline); smaller ones, such as the landscapes of a `measure` plan, which run
+/// side by side, use one.
+pub const PIPELINE_MIN_CELLS: usize = 1 << 22;
+
 /// The propagation state of one slice as f32 vectors (NaN = no origin yet).
-struct SliceState {
+struct SliceBuf {
     x: Vec<f32>,
     y: Vec<f32>,
     z: Vec<f32>,
 }
 
-/// A slice-state view used as the source of a relaxation (a whole slice or one row).
-trait Source {
-    fn rows(&self, l: usize, n: usize) -> (&[f32], &[f32], &[f32]);
-}
-
-impl Source for SliceState {
-    #[inline(always)]
-    fn rows(&self, l: usize, n: usize) -> (&[f32], &[f32], &[f32]) {
-        (&self.x[l..l + n], &self.y[l..l + n], &self.z[l..l + n])
-    }
-}
-
-/// A copy of one row, used when source and target rows lie in the same slice.
-struct RowCopy {
-    start: usize,
-    x: Vec<f32>,
-    y: Vec<f32>,
-    z: Vec<f32>,
-}
-
-impl Source for RowCopy {
-    #[inline(always)]
-    fn rows(&self, l: usize, n: usize) -> (&[f32], &[f32], &[f32]) {
-        let i = l - self.start;
-        (&self.x[i..i + n], &self.y[i..i + n], &self.z[i..i + n])
-    }
-}
-
-impl SliceState {
+impl SliceBuf {
     fn new(n: usize) -> Self {
-        SliceState {
+        SliceBuf {
             x: vec![f32::NAN; n],
             y: vec![0.0; n],
             z: vec![0.0; n],
         }
     }
 
-    fn load(&mut self, ox: &[i16], oy: &[i16], oz: &[i16]) {
-        for i in 0..ox.len() {
-            self.x[i] = if ox[i] == NONE {
-                f32::NAN
-            } else {
-                ox[i] as f32
-            };
-            self.y[i] = oy[i] as f32;
-            self.z[i] = oz[i] as f32;
+    fn ptrs(&mut self) -> SlicePtrs {
+        SlicePtrs {
+            x: self.x.as_mut_ptr(),
+            y: self.y.as_mut_ptr(),
+            z: self.z.as_mut_ptr(),
+        }
+    }
+}
+
+/// Raw access to a [`SliceBuf`], so that one thread can write a row of a slice while the
+/// other reads rows of it that are finished (never the same row).
+#[derive(Clone, Copy)]
+struct SlicePtrs {
+    x: *mut f32,
+    y: *mut f32,
+    z: *mut f32,
+}
+
+type Row<'a> = (&'a [f32], &'a [f32], &'a [f32]);
+type RowMut<'a> = (&'a mut [f32], &'a mut [f32], &'a mut [f32]);
+
+impl SlicePtrs {
+    /// SAFETY: `start + n` within the buffer, and no mutable view of these entries alive.
+    #[inline(always)]
+    unsafe fn row<'a>(self, start: usize, n: usize) -> Row<'a> {
+        unsafe {
+            (
+                std::slice::from_raw_parts(self.x.add(start), n),
+                std::slice::from_raw_parts(self.y.add(start), n),
+                std::slice::from_raw_parts(self.z.add(start), n),
+            )
         }
     }
 
-    fn store(&self, ox: &mut [i16], oy: &mut [i16], oz: &mut [i16]) {
-        for i in 0..ox.len() {
-            let x = self.x[i];
-            ox[i] = if x.is_nan() { NONE } else { x as i16 };
-            oy[i] = self.y[i] as i16;
-            oz[i] = self.z[i] as i16;
+    /// SAFETY: `start + n` within the buffer, and no other view of these entries alive.
+    #[inline(always)]
+    unsafe fn row_mut<'a>(self, start: usize, n: usize) -> RowMut<'a> {
+        unsafe {
+            (
+                std::slice::from_raw_parts_mut(self.x.add(start), n),
+                std::slice::from_raw_parts_mut(self.y.add(start), n),
+                std::slice::from_raw_parts_mut(self.z.add(start), n),
+            )
         }
     }
+}
 
-    /// A copy of the source row and the state itself (the target row is written in place).
-    fn split_rows(&mut self, src: usize, _row: usize, n: usize) -> (RowCopy, &mut SliceState) {
-        let copy = RowCopy {
-            start: src,
-            x: self.x[src..src + n].to_vec(),
-            y: self.y[src..src + n].to_vec(),
-            z: self.z[src..src + n].to_vec(),
+/// Loads a plane of i16 origins into f32 state.
+#[inline(always)]
+fn load_plane(dst: RowMut<'_>, ox: &[i16], oy: &[i16], oz: &[i16]) {
+    let n = ox.len();
+    let (x, y, z) = (&mut dst.0[..n], &mut dst.1[..n], &mut dst.2[..n]);
+    let (oy, oz) = (&oy[..n], &oz[..n]);
+    for i in 0..n {
+        x[i] = if ox[i] == NONE {
+            f32::NAN
+        } else {
+            ox[i] as f32
         };
-        (copy, self)
+        y[i] = oy[i] as f32;
+        z[i] = oz[i] as f32;
+    }
+}
+
+/// Stores a plane of f32 state as i16 origins.
+#[inline(always)]
+fn store_plane(src: Row<'_>, ox: &mut [i16], oy: &mut [i16], oz: &mut [i16]) {
+    let n = ox.len();
+    let (x, y, z) = (&src.0[..n], &src.1[..n], &src.2[..n]);
+    let (oy, oz) = (&mut oy[..n], &mut oz[..n]);
+    for i in 0..n {
+        // The values are whole numbers inside the i16 range (the box is smaller than 32767
+        // cells along each axis) and NaN is mapped to NONE first, so the unchecked
+        // conversion is exact; it avoids the saturating cast's fix-ups.
+        let xv = if x[i].is_nan() { NONE as f32 } else { x[i] };
+        // SAFETY: xv, y[i], z[i] are finite and within i32 range (see above).
+        unsafe {
+            ox[i] = xv.to_int_unchecked::<i32>() as i16;
+            oy[i] = y[i].to_int_unchecked::<i32>() as i16;
+            oz[i] = z[i].to_int_unchecked::<i32>() as i16;
+        }
     }
 }
 
 /// The numerator c·|c| and denominator |w|² of the angle key of index vector (a, b, c).
+/// `AX` < 3: the direction is the world axis `AX` (d has one non-zero entry, ±1), so the
+/// dot product is that one term; the other two terms of the general sum are ±0 and add
+/// nothing, so the value is bit for bit the general one.
 #[inline(always)]
-fn key_parts<const DIAG: bool>(
+fn key_parts<const DIAG: bool, const AX: usize>(
     l: &[[f32; 3]; 3],
     d: &[f32; 3],
     a: f32,
@@ -274,22 +308,25 @@ fn key_parts<const DIAG: bool>(
             l[2][0] * a + l[2][1] * b + l[2][2] * c,
         )
     };
-    let cc = w0 * d[0] + w1 * d[1] + w2 * d[2];
+    let cc = match AX {
+        0 => w0 * d[0],
+        1 => w1 * d[1],
+        2 => w2 * d[2],
+        _ => w0 * d[0] + w1 * d[1] + w2 * d[2],
+    };
     (cc * cc.abs(), w0 * w0 + w1 * w1 + w2 * w2)
 }
 
-/// Offers every voxel of row `row` of `cur` the origins of row `src` of `from`, shifted by
-/// di = −1, 0, 1 along the row. `e` = (−dj, −dk) of the neighbour, i.e. here − neighbour.
+/// Offers every voxel of the target row `dst` the origins of the source row `src`, shifted
+/// by di = −1, 0, 1 along the row. `e` = (−dj, −dk) of the neighbour, i.e. here − neighbour.
 #[allow(clippy::too_many_arguments)]
 #[inline(always)]
-fn relax_row<S: Source, const DIAG: bool>(
+fn relax_row<const DIAG: bool, const AX: usize>(
     l: &[[f32; 3]; 3],
     d: &[f32; 3],
-    from: &S,
-    src: usize,
+    src: Row<'_>,
     e: [f32; 2],
-    cur: &mut SliceState,
-    row: usize,
+    dst: &mut RowMut<'_>,
     num: &mut [f32],
     den: &mut [f32],
     nx: usize,
@@ -303,17 +340,17 @@ fn relax_row<S: Source, const DIAG: bool>(
             continue;
         }
         let n = i1 - i0;
-        let s0 = (src as i64 + i0 as i64 + di) as usize;
-        let (sx, sy, sz) = from.rows(s0, n);
+        let s0 = (i0 as i64 + di) as usize;
+        let (sx, sy, sz) = (&src.0[s0..s0 + n], &src.1[s0..s0 + n], &src.2[s0..s0 + n]);
         let ex = -di as f32;
         let kn_ = &mut num[i0..i0 + n];
         let kd_ = &mut den[i0..i0 + n];
-        let rx = &mut cur.x[row + i0..row + i0 + n];
-        let ry = &mut cur.y[row + i0..row + i0 + n];
-        let rz = &mut cur.z[row + i0..row + i0 + n];
+        let rx = &mut dst.0[i0..i0 + n];
+        let ry = &mut dst.1[i0..i0 + n];
+        let rz = &mut dst.2[i0..i0 + n];
         for t in 0..n {
             let (ca, cb, cc) = (sx[t] + ex, sy[t] + e[0], sz[t] + e[1]);
-            let (kn, n2) = key_parts::<DIAG>(l, d, ca, cb, cc);
+            let (kn, n2) = key_parts::<DIAG, AX>(l, d, ca, cb, cc);
             // NaN (no origin) compares false.
             let better = kn * kd_[t] > kn_[t] * n2;
             kn_[t] = if better { kn } else { kn_[t] };
@@ -321,6 +358,263 @@ fn relax_row<S: Source, const DIAG: bool>(
             rx[t] = if better { ca } else { rx[t] };
             ry[t] = if better { cb } else { ry[t] };
             rz[t] = if better { cc } else { rz[t] };
+        }
+    }
+}
+
+/// One raster pass over the whole box, shared by its worker threads: slice `ks[t]` is
+/// swept by worker t mod `step`, into buffer t mod `bufs.len()`, reading the previous
+/// slice's buffer. With two workers, row r of a slice waits until the previous slice has
+/// finished rows up to r + 1 (`progress`).
+struct PassJob {
+    ox: *mut i16,
+    oy: *mut i16,
+    oz: *mut i16,
+    cdims: [usize; 3],
+    linear: [[f32; 3]; 3],
+    direction: [f32; 3],
+    forward: bool,
+    ks: Vec<usize>,
+    bufs: Vec<SlicePtrs>,
+    progress: Vec<AtomicUsize>,
+    abort: AtomicBool,
+}
+
+// SAFETY: the workers touch disjoint planes of the origin arrays and disjoint rows of the
+// slice buffers, ordered by the release/acquire `progress` counters (see `run_slices`).
+unsafe impl Sync for PassJob {}
+
+/// Sets the abort flag when a worker unwinds, so that the other stops waiting for it.
+struct AbortOnPanic<'a>(&'a AtomicBool);
+
+impl Drop for AbortOnPanic<'_> {
+    fn drop(&mut self) {
+        if std::thread::panicking() {
+            self.0.store(true, Ordering::Relaxed);
+        }
+    }
+}
+
+impl PassJob {
+    /// Runs the slices t = start, start + step, ...
+    fn run(&self, start: usize, step: usize) {
+        let _guard = AbortOnPanic(&self.abort);
+        #[cfg(target_arch = "x86_64")]
+        {
+            if std::is_x86_feature_detected!("avx512f")
+                && std::is_x86_feature_detected!("avx512vl")
+                && std::is_x86_feature_detected!("avx512bw")
+                && std::is_x86_feature_detected!("avx512dq")
+                && std::is_x86_feature_detected!("fma")
+            {
+                // SAFETY: the CPU supports the features the function is compiled for.
+                unsafe { self.run_avx512(start, step) };
+                return;
+            }
+            if std::is_x86_feature_detected!("avx2") && std::is_x86_feature_detected!("fma") {
+                // SAFETY: the CPU supports the features the function is compiled for.
+                unsafe { self.run_avx2(start, step) };
+                return;
+            }
+        }
+        self.run_dispatch(start, step);
+    }
+
+    /// Chooses the diagonal-affine and axis-direction specialisations.
+    #[inline(always)]
+    fn run_dispatch(&self, start: usize, step: usize) {
+        let l = self.linear;
+        let diag = l[0][1] == 0.0
+            && l[0][2] == 0.0
+            && l[1][0] == 0.0
+            && l[1][2] == 0.0
+            && l[2][0] == 0.0
+            && l[2][1] == 0.0;
+        let d = self.direction;
+        let axis = (0..3).find(|&a| (0..3).all(|b| b == a || d[b] == 0.0));
+        match (diag, axis) {
+            (true, Some(0)) => self.run_slices::<true, 0>(start, step),
+            (true, Some(1)) => self.run_slices::<true, 1>(start, step),
+            (true, Some(2)) => self.run_slices::<true, 2>(start, step),
+            (true, _) => self.run_slices::<true, 3>(start, step),
+            (false, _) => self.run_slices::<false, 3>(start, step),
+        }
+    }
+
+    /// The same pass compiled for AVX2 and FMA (8 lanes of f32).
+    #[cfg(target_arch = "x86_64")]
+    #[target_feature(enable = "avx2,fma")]
+    unsafe fn run_avx2(&self, start: usize, step: usize) {
+        self.run_dispatch(start, step);
+    }
+
+    /// The same pass compiled for AVX-512 (16 lanes of f32). Rust never fuses a product and
+    /// a sum on its own, so every lane computes the same values as the scalar code.
+    #[cfg(target_arch = "x86_64")]
+    #[target_feature(enable = "avx512f,avx512vl,avx512bw,avx512dq,avx2,fma")]
+    unsafe fn run_avx512(&self, start: usize, step: usize) {
+        self.run_dispatch(start, step);
+    }
+
+    /// Waits until slice position `t` has finished `need` rows.
+    #[inline(always)]
+    fn wait_rows(&self, t: usize, need: usize) {
+        let mut spins = 0u32;
+        while self.progress[t].load(Ordering::Acquire) < need {
+            if self.abort.load(Ordering::Relaxed) {
+                panic!("a landscape pass worker stopped");
+            }
+            if spins < 256 {
+                std::hint::spin_loop();
+                spins += 1;
+            } else {
+                std::thread::yield_now();
+            }
+        }
+    }
+
+    /// Sweeps the slices of one worker. The state of the slice being swept and of the slice
+    /// before it is held as f32 (NaN = no origin yet); the angle key cos β·|cos β| is kept
+    /// as a fraction num/den and compared by cross-multiplication, so the inner loops have
+    /// no division and no branch.
+    #[inline(always)]
+    fn run_slices<const DIAG: bool, const AX: usize>(&self, start: usize, step: usize) {
+        let [nx, ny, _] = self.cdims;
+        let plane = nx * ny;
+        let l = self.linear;
+        let d = self.direction;
+        let sgn: i64 = if self.forward { 1 } else { -1 };
+        let sync = step > 1;
+        let nb = self.bufs.len();
+        let mut num = vec![0.0f32; nx];
+        let mut den = vec![0.0f32; nx];
+        let js: Vec<usize> = if self.forward {
+            (0..ny).collect()
+        } else {
+            (0..ny).rev().collect()
+        };
+        let mut t = start;
+        while t < self.ks.len() {
+            let k = self.ks[t];
+            let base = plane * k;
+            let cur = self.bufs[t % nb];
+            let prev = self.bufs[(t + nb - 1) % nb];
+            let have_prev = t > 0;
+            // SAFETY: plane k belongs to this worker alone in this pass; the buffer of
+            // position t is written by this worker only, and read by the next position's
+            // worker row by row after `progress` says the row is finished. The buffer is
+            // reused (position t + nb) only after that reader is done (see `pass`).
+            unsafe {
+                load_plane(
+                    cur.row_mut(0, plane),
+                    std::slice::from_raw_parts(self.ox.add(base), plane),
+                    std::slice::from_raw_parts(self.oy.add(base), plane),
+                    std::slice::from_raw_parts(self.oz.add(base), plane),
+                );
+            }
+            for (r, &j) in js.iter().enumerate() {
+                if sync && have_prev {
+                    self.wait_rows(t - 1, (r + 2).min(ny));
+                }
+                let row = nx * j;
+                // SAFETY: row j of this worker's buffer; no other view of it is alive.
+                let mut dst = unsafe { cur.row_mut(row, nx) };
+                // Keys of the current state.
+                {
+                    let (cx, cy, cz) = (&dst.0[..nx], &dst.1[..nx], &dst.2[..nx]);
+                    let (num, den) = (&mut num[..nx], &mut den[..nx]);
+                    for i in 0..nx {
+                        let (kn, n2) = key_parts::<DIAG, AX>(&l, &d, cx[i], cy[i], cz[i]);
+                        let none = cx[i].is_nan();
+                        let origin = n2 == 0.0;
+                        num[i] = if none {
+                            -2.0
+                        } else if origin {
+                            1.0
+                        } else {
+                            kn
+                        };
+                        den[i] = if none {
+                            1.0
+                        } else if origin {
+                            0.0
+                        } else {
+                            n2
+                        };
+                    }
+                }
+                // Neighbours in earlier rows: three in the previous slice's rows j−1..j+1
+                // (dk = −s) and one row j−s of this slice, each with di = −1, 0, 1.
+                for dj in -1i64..=1 {
+                    let jj = j as i64 + dj;
+                    if have_prev && jj >= 0 && jj < ny as i64 {
+                        // SAFETY: a finished row of the previous slice (waited for above).
+                        let src = unsafe { prev.row(nx * jj as usize, nx) };
+                        relax_row::<DIAG, AX>(
+                            &l,
+                            &d,
+                            src,
+                            [-dj as f32, sgn as f32],
+                            &mut dst,
+                            &mut num,
+                            &mut den,
+                            nx,
+                        );
+                    }
+                }
+                let jj = j as i64 - sgn;
+                if jj >= 0 && jj < ny as i64 {
+                    // SAFETY: another row (j − s ≠ j) of this worker's own buffer.
+                    let src = unsafe { cur.row(nx * jj as usize, nx) };
+                    relax_row::<DIAG, AX>(
+                        &l,
+                        &d,
+                        src,
+                        [sgn as f32, 0.0],
+                        &mut dst,
+                        &mut num,
+                        &mut den,
+                        nx,
+                    );
+                }
+                // The neighbour in the same row, swept in pass order.
+                let step_i = sgn as f32;
+                let (cx, cy, cz) = (&mut *dst.0, &mut *dst.1, &mut *dst.2);
+                let (num, den) = (&mut num[..nx], &mut den[..nx]);
+                let mut sweep = |i: usize, p: usize| {
+                    let (ca, cb, cc) = (cx[p] + step_i, cy[p], cz[p]);
+                    let (kn, n2) = key_parts::<DIAG, AX>(&l, &d, ca, cb, cc);
+                    if kn * den[i] > num[i] * n2 {
+                        num[i] = kn;
+                        den[i] = n2;
+                        cx[i] = ca;
+                        cy[i] = cb;
+                        cz[i] = cc;
+                    }
+                };
+                if self.forward {
+                    for i in 1..nx {
+                        sweep(i, i - 1);
+                    }
+                } else {
+                    for i in (0..nx.saturating_sub(1)).rev() {
+                        sweep(i, i + 1);
+                    }
+                }
+                if sync {
+                    self.progress[t].store(r + 1, Ordering::Release);
+                }
+            }
+            // SAFETY: as for the load; readers of this buffer only read.
+            unsafe {
+                store_plane(
+                    cur.row(0, plane),
+                    std::slice::from_raw_parts_mut(self.ox.add(base), plane),
+                    std::slice::from_raw_parts_mut(self.oy.add(base), plane),
+                    std::slice::from_raw_parts_mut(self.oz.add(base), plane),
+                );
+            }
+            t += step;
         }
     }
 }
@@ -349,6 +643,21 @@ impl FastLandscape {
         d: [f64; 3],
         factor: usize,
     ) -> Self {
+        Self::compute_threads(reference, lo, dims, affine, d, factor, 2)
+    }
+
+    /// As [`FastLandscape::compute_coarse`], with at most `max_threads` threads per pass (1
+    /// or 2; two are used only for boxes of at least [`PIPELINE_MIN_CELLS`] cells). The
+    /// result does not depend on the number of threads.
+    pub fn compute_threads(
+        reference: &Mask,
+        lo: [i64; 3],
+        dims: [usize; 3],
+        affine: &Affine,
+        d: [f64; 3],
+        factor: usize,
+        max_threads: usize,
+    ) -> Self {
         let f = factor.max(1);
         let cdims = dims.map(|n| n.div_ceil(f));
         let [nx, ny, nz] = cdims;
@@ -366,184 +675,92 @@ impl FastLandscape {
             linear: fine_linear.map(|r| r.map(|v| (v * f as f64) as f32)),
             direction: d.map(|v| v as f32),
         };
-        for p in reference.iter() {
-            let (i, j, k) = (p[0] - lo[0], p[1] - lo[1], p[2] - lo[2]);
-            if i >= 0
-                && j >= 0
-                && k >= 0
-                && (i as usize) < dims[0]
-                && (j as usize) < dims[1]
-                && (k as usize) < dims[2]
-            {
-                let (i, j, k) = (i as usize / f, j as usize / f, k as usize / f);
-                me.ox[i + nx * (j + ny * k)] = 0;
+        // The first slice holding a reference cell (nz when there is none).
+        let mut first_k = nz;
+        // Cell x index of each box column, so that marking needs no division per voxel.
+        let cell_x: Vec<usize> = (0..dims[0]).map(|i| i / f).collect();
+        let [rx, ry, rz] = reference.dims;
+        for rk in 0..rz {
+            let k = reference.lo[2] + rk as i64 - lo[2];
+            if k < 0 || k as usize >= dims[2] {
+                continue;
+            }
+            for rj in 0..ry {
+                let j = reference.lo[1] + rj as i64 - lo[1];
+                if j < 0 || j as usize >= dims[1] {
+                    continue;
+                }
+                let start = rx * (rj + ry * rk);
+                let row = &reference.bits[start..start + rx];
+                if !row.contains(&true) {
+                    continue;
+                }
+                let (cj, ck) = (j as usize / f, k as usize / f);
+                let base = nx * (cj + ny * ck);
+                for (ri, &b) in row.iter().enumerate() {
+                    let i = reference.lo[0] + ri as i64 - lo[0];
+                    if b && i >= 0 && (i as usize) < dims[0] {
+                        me.ox[base + cell_x[i as usize]] = 0;
+                        first_k = first_k.min(ck);
+                    }
+                }
             }
         }
-        me.pass(true);
-        me.pass(false);
+        me.pass(true, first_k, max_threads);
+        me.pass(false, 0, max_threads);
         me
     }
 
-    fn pass(&mut self, forward: bool) {
-        #[cfg(target_arch = "x86_64")]
-        {
-            if std::is_x86_feature_detected!("avx2") && std::is_x86_feature_detected!("fma") {
-                // SAFETY: the CPU supports the features the function is compiled for.
-                unsafe { self.pass_avx2(forward) };
-                return;
-            }
-        }
-        self.pass_dispatch(forward);
-    }
-
-    /// Chooses the diagonal-affine specialisation.
-    #[inline(always)]
-    fn pass_dispatch(&mut self, forward: bool) {
-        let l = self.linear;
-        if l[0][1] == 0.0
-            && l[0][2] == 0.0
-            && l[1][0] == 0.0
-            && l[1][2] == 0.0
-            && l[2][0] == 0.0
-            && l[2][1] == 0.0
-        {
-            self.pass_impl::<true>(forward);
-        } else {
-            self.pass_impl::<false>(forward);
-        }
-    }
-
-    /// The same pass compiled for AVX2 and FMA (8 lanes of f32).
-    #[cfg(target_arch = "x86_64")]
-    #[target_feature(enable = "avx2,fma")]
-    unsafe fn pass_avx2(&mut self, forward: bool) {
-        self.pass_dispatch(forward);
-    }
-
-    /// One raster pass. The state of the slice being swept and of the slice before it is
-    /// held as f32 (NaN = no origin yet); the angle key cos β·|cos β| is kept as a fraction
-    /// num/den and compared by cross-multiplication, so the inner loops have no division
-    /// and no branch.
-    #[inline(always)]
-    fn pass_impl<const DIAG: bool>(&mut self, forward: bool) {
+    /// One raster pass; the forward pass starts at slice `first_k` (every earlier slice holds
+    /// no reference cell and can receive no origin in that pass, so it is left as it is).
+    /// Large boxes run on two threads: worker 0 sweeps the even slices, worker 1 the odd
+    /// ones, a row behind; each slice sees exactly the state it would see in one thread,
+    /// so the result does not depend on the threading.
+    fn pass(&mut self, forward: bool, first_k: usize, max_threads: usize) {
         let [nx, ny, nz] = self.cdims;
         let plane = nx * ny;
-        let l = self.linear;
-        let d = self.direction;
-        let sgn: i64 = if forward { 1 } else { -1 };
-        let mut prev = SliceState::new(plane);
-        let mut cur = SliceState::new(plane);
-        let mut num = vec![0.0f32; nx];
-        let mut den = vec![0.0f32; nx];
         let ks: Vec<usize> = if forward {
-            (0..nz).collect()
+            (first_k.min(nz)..nz).collect()
         } else {
             (0..nz).rev().collect()
         };
-        let js: Vec<usize> = if forward {
-            (0..ny).collect()
-        } else {
-            (0..ny).rev().collect()
+        let two = max_threads >= 2
+            && nx * ny * nz >= PIPELINE_MIN_CELLS
+            && ks.len() >= 2
+            && std::thread::available_parallelism().is_ok_and(|n| n.get() >= 2);
+        // Two workers need four buffers: position t's buffer is next written at t + 4, by
+        // the same worker, after it has finished t + 2, which waited for all of t + 1, the
+        // only reader of t's buffer.
+        let mut bufs: Vec<SliceBuf> = (0..if two { 4 } else { 2 })
+            .map(|_| SliceBuf::new(plane))
+            .collect();
+        let job = PassJob {
+            ox: self.ox.as_mut_ptr(),
+            oy: self.oy.as_mut_ptr(),
+            oz: self.oz.as_mut_ptr(),
+            cdims: self.cdims,
+            linear: self.linear,
+            direction: self.direction,
+            forward,
+            bufs: bufs.iter_mut().map(SliceBuf::ptrs).collect(),
+            progress: if two {
+                ks.iter().map(|_| AtomicUsize::new(0)).collect()
+            } else {
+                Vec::new()
+            },
+            ks,
+            abort: AtomicBool::new(false),
         };
-        let mut have_prev = false;
-        for &k in &ks {
-            let base = plane * k;
-            cur.load(
-                &self.ox[base..base + plane],
-                &self.oy[base..base + plane],
-                &self.oz[base..base + plane],
-            );
-            for &j in &js {
-                let row = nx * j;
-                // Keys of the current state.
-                for i in 0..nx {
-                    let (kn, n2) =
-                        key_parts::<DIAG>(&l, &d, cur.x[row + i], cur.y[row + i], cur.z[row + i]);
-                    let none = cur.x[row + i].is_nan();
-                    let origin = n2 == 0.0;
-                    num[i] = if none {
-                        -2.0
-                    } else if origin {
-                        1.0
-                    } else {
-                        kn
-                    };
-                    den[i] = if none {
-                        1.0
-                    } else if origin {
-                        0.0
-                    } else {
-                        n2
-                    };
-                }
-                // Neighbours in earlier rows: three in the previous slice's rows j−1..j+1
-                // (dk = −s) and one row j−s of this slice, each with di = −1, 0, 1.
-                for dj in -1i64..=1 {
-                    let jj = j as i64 + dj;
-                    if have_prev && jj >= 0 && jj < ny as i64 {
-                        let src = nx * jj as usize;
-                        relax_row::<_, DIAG>(
-                            &l,
-                            &d,
-                            &prev,
-                            src,
-                            [-dj as f32, sgn as f32],
-                            &mut cur,
-                            row,
-                            &mut num,
-                            &mut den,
-                            nx,
-                        );
-                    }
-                }
-                let jj = j as i64 - sgn;
-                if jj >= 0 && jj < ny as i64 {
-                    let src = nx * jj as usize;
-                    let (head, tail) = cur.split_rows(src, row, nx);
-                    relax_row::<_, DIAG>(
-                        &l,
-                        &d,
-                        &head,
-                        src,
-                        [sgn as f32, 0.0],
-                        tail,
-                        row,
-                        &mut num,
-                        &mut den,
-                        nx,
-                    );
-                }
-                // The neighbour in the same row, swept in pass order.
-                let step = sgn as f32;
-                let mut sweep = |i: usize, p: usize| {
-                    let (ca, cb, cc) = (cur.x[row + p] + step, cur.y[row + p], cur.z[row + p]);
-                    let (kn, n2) = key_parts::<DIAG>(&l, &d, ca, cb, cc);
-                    if kn * den[i] > num[i] * n2 {
-                        num[i] = kn;
-                        den[i] = n2;
-                        cur.x[row + i] = ca;
-                        cur.y[row + i] = cb;
-                        cur.z[row + i] = cc;
-                    }
-                };
-                if forward {
-                    for i in 1..nx {
-                        sweep(i, i - 1);
-                    }
-                } else {
-                    for i in (0..nx.saturating_sub(1)).rev() {
-                        sweep(i, i + 1);
-                    }
-                }
-            }
-            cur.store(
-                &mut self.ox[base..base + plane],
-                &mut self.oy[base..base + plane],
-                &mut self.oz[base..base + plane],
-            );
-            std::mem::swap(&mut prev, &mut cur);
-            have_prev = true;
+        if two {
+            std::thread::scope(|s| {
+                s.spawn(|| job.run(1, 2));
+                job.run(0, 2);
+            });
+        } else {
+            job.run(0, 1);
         }
+        drop(job);
+        drop(bufs);
     }
 
     /// The propagation cell holding a global voxel, if inside the box.
@@ -553,22 +770,64 @@ impl FastLandscape {
 
     /// The degree of a cell, read at its centre (for factor 1, the voxel's own degree).
     pub fn cell_degree(&self, c: usize) -> f64 {
-        if self.ox[c] == NONE {
-            return 0.0;
+        let d = self.direction.map(|x| x as f64);
+        cell_degree_of(
+            self.ox[c],
+            self.oy[c],
+            self.oz[c],
+            self.factor as f64,
+            &self.fine_linear,
+            d,
+        )
+    }
+
+    /// [`FastLandscape::cell_degree`] of many cells at once, written to `out` in the order
+    /// of `cells` (each given with a weight that is passed through). The same arithmetic,
+    /// laid out so that the compiler can run it on vector lanes.
+    pub fn cell_degrees(&self, cells: &[(usize, u32)], out: &mut Vec<(f64, u32)>) {
+        let n = cells.len();
+        let mut o = [vec![0i16; n], vec![0i16; n], vec![0i16; n]];
+        for (t, &(c, _)) in cells.iter().enumerate() {
+            o[0][t] = self.ox[c];
+            o[1][t] = self.oy[c];
+            o[2][t] = self.oz[c];
         }
+        let mut deg = vec![0.0f64; n];
+        #[cfg(target_arch = "x86_64")]
+        {
+            if std::is_x86_feature_detected!("avx512f")
+                && std::is_x86_feature_detected!("avx512vl")
+                && std::is_x86_feature_detected!("avx512dq")
+                && std::is_x86_feature_detected!("avx512bw")
+            {
+                // SAFETY: the CPU supports the features the function is compiled for.
+                unsafe { self.degrees_avx512(&o, &mut deg) };
+            } else {
+                self.degrees_plain(&o, &mut deg);
+            }
+        }
+        #[cfg(not(target_arch = "x86_64"))]
+        self.degrees_plain(&o, &mut deg);
+        out.clear();
+        out.extend(deg.into_iter().zip(cells.iter().map(|&(_, w)| w)));
+    }
+
+    #[inline(always)]
+    fn degrees_plain(&self, o: &[Vec<i16>; 3], deg: &mut [f64]) {
+        let d = self.direction.map(|x| x as f64);
         let f = self.factor as f64;
-        let v = [
-            self.ox[c] as f64 * f,
-            self.oy[c] as f64 * f,
-            self.oz[c] as f64 * f,
-        ];
-        let l = &self.fine_linear;
-        let w = [
-            l[0][0] * v[0] + l[0][1] * v[1] + l[0][2] * v[2],
-            l[1][0] * v[0] + l[1][1] * v[1] + l[1][2] * v[2],
-            l[2][0] * v[0] + l[2][1] * v[1] + l[2][2] * v[2],
-        ];
-        structuring_element_fast(w, self.direction.map(|x| x as f64))
+        let l = self.fine_linear;
+        let n = deg.len();
+        let (ox, oy, oz) = (&o[0][..n], &o[1][..n], &o[2][..n]);
+        for t in 0..n {
+            deg[t] = cell_degree_of(ox[t], oy[t], oz[t], f, &l, d);
+        }
+    }
+
+    #[cfg(target_arch = "x86_64")]
+    #[target_feature(enable = "avx512f,avx512vl,avx512bw,avx512dq,avx2")]
+    unsafe fn degrees_avx512(&self, o: &[Vec<i16>; 3], deg: &mut [f64]) {
+        self.degrees_plain(o, deg);
     }
 
     /// The degree at a global voxel (0 outside the box or where no origin was found).
@@ -605,6 +864,33 @@ impl FastLandscape {
 
     /// Bytes of state per propagation cell.
     pub const BYTES_PER_CELL: usize = 6;
+}
+
+/// The degree of a cell whose origin vector (in cells) is (x, y, z): the structuring
+/// element ([`structuring_element_fast`]) of the world vector between the two cell centres.
+/// Branch-free, so that a loop over cells runs on vector lanes; the values are those of the
+/// scalar formula. A negative cosine gives 0 (an angle above π/2, where the approximate
+/// arccos stays above π/2 too).
+#[inline(always)]
+fn cell_degree_of(x: i16, y: i16, z: i16, f: f64, l: &[[f64; 3]; 3], d: [f64; 3]) -> f64 {
+    let v = [x as f64 * f, y as f64 * f, z as f64 * f];
+    let w = [
+        l[0][0] * v[0] + l[0][1] * v[1] + l[0][2] * v[2],
+        l[1][0] * v[0] + l[1][1] * v[1] + l[1][2] * v[2],
+        l[2][0] * v[0] + l[2][1] * v[1] + l[2][2] * v[2],
+    ];
+    let dot = w[0] * d[0] + w[1] * d[1] + w[2] * d[2];
+    let n2 = w[0] * w[0] + w[1] * w[1] + w[2] * w[2];
+    let c = (dot / n2.sqrt()).clamp(-1.0, 1.0);
+    let acos = acos_fast(c);
+    let value = (1.0 - FRAC_2_PI * acos).max(0.0);
+    if x == NONE || dot < 0.0 {
+        0.0
+    } else if n2 == 0.0 {
+        1.0
+    } else {
+        value
+    }
 }
 
 /// Number of propagation cells of a box of `dims` voxels at coarsening `factor`.

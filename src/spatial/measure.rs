@@ -3,10 +3,8 @@
 use super::SpatialError;
 use super::affine::round_to;
 use super::config::MeasureConfig;
-use super::edt::edt_squared;
-use super::landscape::{
-    Direction, FastLandscape, LandscapeMode, cell_count, cell_index, exact_degree,
-};
+use super::edt::{edt_squared, edt_squared_into};
+use super::landscape::{Direction, FastLandscape, LandscapeMode, cell_count, exact_degree};
 use super::mask::{Adjacency, Mask};
 use super::nifti_io::LabelMap;
 use super::rcc8::{Rcc8, relate_counted};
@@ -320,6 +318,9 @@ pub fn measure(
         p.dedup();
     }
     // directed[(y, x)] = (min over y of d(·, X), max over y of d(·, X))
+    // Feature and distance buffers, handed from one region to the next: the boxes are
+    // often the whole volume, and fresh pages for each transform cost more than the reuse.
+    let pool: std::sync::Mutex<Vec<(Vec<bool>, Vec<f64>)>> = std::sync::Mutex::new(Vec::new());
     let directed: BTreeMap<(usize, usize), (f64, f64)> = (0..n)
         .into_par_iter()
         .filter(|&x| !partners[x].is_empty())
@@ -328,23 +329,29 @@ pub fn measure(
                 .chain(partners[x].iter().map(|&y| &regions[y].mask))
                 .collect();
             let (lo, dims) = union_box(&boxes);
-            let feat = paint(&regions[x].mask, lo, dims);
+            let (mut feat, mut d) = pool
+                .lock()
+                .unwrap_or_else(|e| e.into_inner())
+                .pop()
+                .unwrap_or_default();
+            paint_into(&regions[x].mask, lo, dims, &mut feat);
             // Squared distances; square roots only for the two values kept per partner.
-            let d = edt_squared(dims, spacing, &feat);
-            partners[x]
+            edt_squared_into(dims, spacing, &feat, &mut d);
+            let out: Vec<_> = partners[x]
                 .iter()
                 .map(|&y| {
-                    let (mut mn, mut mx) = (f64::INFINITY, 0.0f64);
-                    for p in regions[y].mask.iter() {
-                        let v = d[lin(p, lo, dims)];
-                        mn = mn.min(v);
-                        mx = mx.max(v);
-                    }
+                    let (mn, mx) = min_max_in_box(&regions[y].mask, lo, dims, &d);
                     ((y, x), (mn.sqrt(), mx.sqrt()))
                 })
-                .collect::<Vec<_>>()
+                .collect();
+            pool.lock()
+                .unwrap_or_else(|e| e.into_inner())
+                .push((feat, d));
+            out
         })
         .collect();
+    // The buffers are not needed past this stage; keep them out of the later peaks.
+    drop(pool);
 
     // Depth: distance from each voxel inside an extent to the nearest voxel outside it.
     let contained: Vec<(usize, usize)> = plan
@@ -369,11 +376,10 @@ pub fn measure(
                     .iter()
                     .filter(|&&(_, bb)| bb == b)
                     .map(|&(a, _)| {
-                        let mn = regions[a]
-                            .mask
-                            .iter()
-                            .map(|p| d[lin(p, ext.lo, ext.dims)])
-                            .fold(f64::INFINITY, f64::min);
+                        let mut mn = f64::INFINITY;
+                        for_each_in_box(&regions[a].mask, ext.lo, ext.dims, |l| {
+                            mn = mn.min(d[l]);
+                        });
                         ((a, b), mn.sqrt())
                     })
                     .collect::<Vec<_>>()
@@ -427,14 +433,24 @@ pub fn measure(
                     .iter()
                     .map(|&a| {
                         let mut touched = Vec::new();
-                        for p in regions[a].mask.iter().filter(|&p| !reference.contains(p)) {
-                            if let Some(c) = cell_index(p, lo, dims, factor) {
+                        // Cell coordinate of each box position along each axis (no division
+                        // per voxel); the cell is that of `landscape::cell_index`.
+                        let tab: [Vec<usize>; 3] =
+                            std::array::from_fn(|ax| (0..dims[ax]).map(|q| q / factor).collect());
+                        let (cx, cy) = (dims[0].div_ceil(factor), dims[1].div_ceil(factor));
+                        let pos = |p: [i64; 3], ax: usize| {
+                            let q = p[ax] - lo[ax];
+                            (q >= 0 && (q as usize) < dims[ax]).then(|| tab[ax][q as usize])
+                        };
+                        for_each_outside(&regions[a].mask, reference, |p| {
+                            if let (Some(i), Some(j), Some(k)) = (pos(p, 0), pos(p, 1), pos(p, 2)) {
+                                let c = i + cx * (j + cy * k);
                                 if count[c] == 0 {
                                     touched.push(c);
                                 }
                                 count[c] += 1;
                             }
-                        }
+                        });
                         touched.sort_unstable();
                         touched
                             .into_iter()
@@ -452,15 +468,17 @@ pub fn measure(
                     let fast = (dir_cfg.landscape == LandscapeMode::Fast).then(|| {
                         FastLandscape::compute_coarse(reference, lo, dims, &affine, dv, factor)
                     });
+                    let mut buf = Vec::new();
                     targets
                         .iter()
                         .enumerate()
                         .map(|(ti, &a)| {
                             let t = regions[a].mask.iter().filter(|&p| !reference.contains(p));
                             let deg = match &fast {
-                                Some(l) => dir_cfg.aggregate.combine_weighted(
-                                    cells[ti].iter().map(|&(c, n)| (l.cell_degree(c), n)),
-                                ),
+                                Some(l) => {
+                                    l.cell_degrees(&cells[ti], &mut buf);
+                                    dir_cfg.aggregate.combine_weighted(buf.iter().copied())
+                                }
                                 None => dir_cfg.aggregate.combine(t.map(|p| {
                                     exact_degree(
                                         affine.apply([p[0] as f64, p[1] as f64, p[2] as f64]),
@@ -668,11 +686,18 @@ pub fn union_box(masks: &[&Mask]) -> ([i64; 3], [usize; 3]) {
 
 /// Paints a mask into a box as a flat boolean array.
 pub fn paint(mask: &Mask, lo: [i64; 3], dims: [usize; 3]) -> Vec<bool> {
-    let mut out = vec![false; dims[0] * dims[1] * dims[2]];
+    let mut out = Vec::new();
+    paint_into(mask, lo, dims, &mut out);
+    out
+}
+
+/// [`paint`] into a reused buffer (resized to the box).
+pub fn paint_into(mask: &Mask, lo: [i64; 3], dims: [usize; 3], out: &mut Vec<bool>) {
+    out.clear();
+    out.resize(dims[0] * dims[1] * dims[2], false);
     for p in mask.iter() {
         out[lin(p, lo, dims)] = true;
     }
-    out
 }
 
 #[inline]
@@ -683,4 +708,118 @@ fn lin(p: [i64; 3], lo: [i64; 3], dims: [usize; 3]) -> usize {
         (p[2] - lo[2]) as usize,
     );
     i + dims[0] * (j + dims[1] * k)
+}
+
+/// Calls `f` with the linear index, in the box `lo .. lo + dims`, of every voxel of `mask`
+/// (row by row; the mask's voxels must lie inside the box).
+fn for_each_in_box(mask: &Mask, lo: [i64; 3], dims: [usize; 3], mut f: impl FnMut(usize)) {
+    let [mx, my, mz] = mask.dims;
+    for k in 0..mz {
+        for j in 0..my {
+            let start = mx * (j + my * k);
+            let row = &mask.bits[start..start + mx];
+            if !row.contains(&true) {
+                continue;
+            }
+            let (gj, gk) = (mask.lo[1] + j as i64 - lo[1], mask.lo[2] + k as i64 - lo[2]);
+            let base = mask.lo[0] - lo[0] + dims[0] as i64 * (gj + dims[1] as i64 * gk);
+            for (i, &b) in row.iter().enumerate() {
+                if b {
+                    f((base + i as i64) as usize);
+                }
+            }
+        }
+    }
+}
+
+/// The smallest and largest value of `d` (a box `lo .. lo + dims` of non-negative values)
+/// over the voxels of `mask` (which must lie inside the box): (∞, 0) for an empty mask.
+/// Eight running minima and maxima per row so that the loop runs on vector lanes; min and
+/// max do not depend on the order, so the result is that of a plain scan.
+fn min_max_in_box(mask: &Mask, lo: [i64; 3], dims: [usize; 3], d: &[f64]) -> (f64, f64) {
+    let [mx, my, mz] = mask.dims;
+    let mut mn = [f64::INFINITY; 8];
+    let mut mxv = [0.0f64; 8];
+    for k in 0..mz {
+        for j in 0..my {
+            let start = mx * (j + my * k);
+            let row = &mask.bits[start..start + mx];
+            if !row.contains(&true) {
+                continue;
+            }
+            let (gj, gk) = (mask.lo[1] + j as i64 - lo[1], mask.lo[2] + k as i64 - lo[2]);
+            let g0 = mask.lo[0] - lo[0];
+            let base = g0 + dims[0] as i64 * (gj + dims[1] as i64 * gk);
+            // The padded mask row may start or end outside the box; its voxels do not.
+            let (a, b) = (
+                (-g0).max(0) as usize,
+                mx.min((dims[0] as i64 - g0).max(0) as usize),
+            );
+            let bits = &row[a..b];
+            let vals = &d[(base + a as i64) as usize..(base + b as i64) as usize];
+            let mut bc = bits.chunks_exact(8);
+            let mut vc = vals.chunks_exact(8);
+            for (bb, vv) in (&mut bc).zip(&mut vc) {
+                for t in 0..8 {
+                    let (lo_v, hi_v) = if bb[t] {
+                        (vv[t], vv[t])
+                    } else {
+                        (f64::INFINITY, 0.0)
+                    };
+                    mn[t] = if lo_v < mn[t] { lo_v } else { mn[t] };
+                    mxv[t] = if hi_v > mxv[t] { hi_v } else { mxv[t] };
+                }
+            }
+            for (&bb, &vv) in bc.remainder().iter().zip(vc.remainder()) {
+                if bb {
+                    mn[0] = mn[0].min(vv);
+                    mxv[0] = mxv[0].max(vv);
+                }
+            }
+        }
+    }
+    (
+        mn.iter().copied().fold(f64::INFINITY, f64::min),
+        mxv.iter().copied().fold(0.0, f64::max),
+    )
+}
+
+/// Calls `f` with every voxel of `mask` that is not in `other`, in raster order (the same
+/// order as `mask.iter()`), reading both masks a row at a time.
+fn for_each_outside(mask: &Mask, other: &Mask, mut f: impl FnMut([i64; 3])) {
+    let [mx, my, mz] = mask.dims;
+    for k in 0..mz {
+        for j in 0..my {
+            let start = mx * (j + my * k);
+            let row = &mask.bits[start..start + mx];
+            if !row.contains(&true) {
+                continue;
+            }
+            let (gj, gk) = (mask.lo[1] + j as i64, mask.lo[2] + k as i64);
+            // The other mask's row at (gj, gk), with the global i of its first voxel.
+            let oj = gj - other.lo[1];
+            let ok = gk - other.lo[2];
+            let orow: &[bool] = if oj >= 0
+                && ok >= 0
+                && (oj as usize) < other.dims[1]
+                && (ok as usize) < other.dims[2]
+            {
+                let s = other.dims[0] * (oj as usize + other.dims[1] * ok as usize);
+                &other.bits[s..s + other.dims[0]]
+            } else {
+                &[]
+            };
+            for (i, &b) in row.iter().enumerate() {
+                if !b {
+                    continue;
+                }
+                let gi = mask.lo[0] + i as i64;
+                let oi = gi - other.lo[0];
+                if oi >= 0 && (oi as usize) < orow.len() && orow[oi as usize] {
+                    continue;
+                }
+                f([gi, gj, gk]);
+            }
+        }
+    }
 }

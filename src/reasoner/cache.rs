@@ -47,7 +47,7 @@ pub struct SatCache {
 impl SatCache {
     /// Whether concept C is known to be unsatisfiable with respect to the KB.
     pub fn is_unsat(&self, c: ConceptId) -> bool {
-        self.unsat.contains(&c)
+        !self.unsat.is_empty() && self.unsat.contains(&c)
     }
 
     /// Records that C is unsatisfiable with respect to the KB.

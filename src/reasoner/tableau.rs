@@ -139,10 +139,13 @@ struct Graph {
     ineq: Vec<(NodeId, NodeId, Dep)>,
     queue: VecDeque<NodeId>,
     ind_node: Vec<NodeId>,
-    /// Nodes whose ≤/choose rules need another look: set when the node or a neighbour
-    /// gains a concept, or the node gains an edge; cleared when a scan finds nothing to do.
-    /// Kept in the graph so that a snapshot restores it with the labels it describes.
-    at_most_dirty: Vec<bool>,
+    /// A counter of changes, and for each node the time of its last change (a concept or an
+    /// edge added) and of its last ≤/choose scan that found nothing to do: a node needs
+    /// another scan only when it or a neighbour changed since. Kept in the graph so that a
+    /// snapshot restores them with the labels they describe.
+    clock: u64,
+    changed: Vec<u64>,
+    checked: Vec<u64>,
 }
 
 #[derive(Clone, Debug)]
@@ -279,7 +282,9 @@ impl<'a> Tableau<'a> {
             active: true,
             ..Default::default()
         });
-        self.g.at_most_dirty.push(true);
+        self.g.clock += 1;
+        self.g.changed.push(self.g.clock);
+        self.g.checked.push(0);
         self.stats.nodes += 1;
         id
     }
@@ -391,19 +396,20 @@ impl<'a> Tableau<'a> {
             node.in_queue = true;
             self.g.queue.push_back(x);
         }
-        self.touch(x);
+        self.g.clock += 1;
+        self.g.changed[x] = self.g.clock;
     }
 
-    /// Marks x and its neighbours for another ≤/choose scan (x's label changed).
-    fn touch(&mut self, x: NodeId) {
-        self.g.at_most_dirty[x] = true;
+    /// The time of the last change at x or at one of its neighbours.
+    fn last_change_around(&self, x: NodeId) -> u64 {
+        let mut m = self.g.changed[x];
         for &e in &self.g.nodes[x].edges {
             let ed = &self.g.edges[e];
             if ed.active {
-                self.g.at_most_dirty[ed.a] = true;
-                self.g.at_most_dirty[ed.b] = true;
+                m = m.max(self.g.changed[ed.a]).max(self.g.changed[ed.b]);
             }
         }
+        m
     }
 
     fn set_clash(&mut self, d: Dep) {
@@ -472,8 +478,9 @@ impl<'a> Tableau<'a> {
         } else {
             self.fire_edge(y, x, r.inverse(), dep);
         }
-        self.g.at_most_dirty[x] = true;
-        self.g.at_most_dirty[y] = true;
+        self.g.clock += 1;
+        self.g.changed[x] = self.g.clock;
+        self.g.changed[y] = self.g.clock;
         for n in [x, y] {
             if !self.g.nodes[n].in_queue {
                 self.g.nodes.get_mut(n).in_queue = true;
@@ -838,14 +845,11 @@ impl<'a> Tableau<'a> {
     fn nondeterministic(&mut self, indirectly_blocked: &[bool]) -> bool {
         // ≤ and choose rules.
         for x in 0..self.g.nodes.len() {
-            if !self.g.at_most_dirty[x] {
-                continue;
-            }
-            if !self.g.nodes[x].active || self.is_indirectly_blocked(x, indirectly_blocked) {
-                continue;
-            }
-            if self.g.nodes[x].at_mosts.is_empty() {
-                self.g.at_most_dirty[x] = false;
+            if !self.g.nodes[x].active
+                || self.g.nodes[x].at_mosts.is_empty()
+                || self.is_indirectly_blocked(x, indirectly_blocked)
+                || self.g.checked[x] >= self.last_change_around(x)
+            {
                 continue;
             }
             for c in self.g.nodes[x].at_mosts.clone() {
@@ -899,7 +903,7 @@ impl<'a> Tableau<'a> {
                 self.branch(Choice::Merge { options: pairs }, base);
                 return true;
             }
-            self.g.at_most_dirty[x] = false;
+            self.g.checked[x] = self.g.clock;
         }
         // ⊔ rule with boolean constraint propagation. Satisfied disjunctions are dropped
         // from the node's pending list (labels only grow until a backtrack restores the

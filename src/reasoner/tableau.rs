@@ -146,6 +146,9 @@ struct Graph {
     clock: u64,
     changed: Vec<u64>,
     checked: Vec<u64>,
+    /// No node before this one has a disjunction left to decide: the ⊔ scan starts here
+    /// instead of at node 0 on every step.
+    or_from: NodeId,
 }
 
 #[derive(Clone, Debug)]
@@ -385,7 +388,10 @@ impl<'a> Tableau<'a> {
         node.deps.insert(c, dep);
         node.hash = node.hash.wrapping_add(mix(c.0 as u64));
         match concept {
-            Concept::Or(_) => node.ors.push(c),
+            Concept::Or(_) => {
+                node.ors.push(c);
+                self.g.or_from = self.g.or_from.min(x);
+            }
             Concept::Some(..) | Concept::AtLeast(..) => node.gens.push(c),
             Concept::AtMost(..) => node.at_mosts.push(c),
             Concept::All(..) => node.alls.push(c),
@@ -908,8 +914,16 @@ impl<'a> Tableau<'a> {
         // ⊔ rule with boolean constraint propagation. Satisfied disjunctions are dropped
         // from the node's pending list (labels only grow until a backtrack restores the
         // snapshot, so a satisfied disjunction stays satisfied).
-        for x in 0..self.g.nodes.len() {
-            if !self.g.nodes[x].active || self.is_indirectly_blocked(x, indirectly_blocked) {
+        let mut clean_so_far = true;
+        for x in self.g.or_from..self.g.nodes.len() {
+            if !self.g.nodes[x].active || self.g.nodes[x].ors.is_empty() {
+                if clean_so_far {
+                    self.g.or_from = x + 1;
+                }
+                continue;
+            }
+            if self.is_indirectly_blocked(x, indirectly_blocked) {
+                clean_so_far = false;
                 continue;
             }
             let mut satisfied: Vec<ConceptId> = Vec::new();
@@ -932,7 +946,12 @@ impl<'a> Tableau<'a> {
                     .ors
                     .retain(|c| !satisfied.contains(c));
             }
-            let Some(c) = pick else { continue };
+            let Some(c) = pick else {
+                if clean_so_far {
+                    self.g.or_from = x + 1;
+                }
+                continue;
+            };
             let Concept::Or(xs) = self.concepts.get(c).clone() else {
                 continue;
             };

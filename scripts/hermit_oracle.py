@@ -224,18 +224,74 @@ def classify(path, timeout=120.0, memory_mb=2000):
         except subprocess.TimeoutExpired as e:
             raise OracleError("HermiT timed out after %.0f s on %s" % (timeout, path)) from e
         secs = time.perf_counter() - t0
-        if "InconsistentOntologyException" in p.stderr:
-            return {"consistent": False, "unsatisfiable": [], "subsumptions": []}, secs
-        if p.returncode != 0 or not os.path.exists(out) or "pear-shaped" in p.stderr:
-            raise OracleError("HermiT failed on %s (exit %d): %s" % (path, p.returncode, p.stderr[-2000:]))
-        with open(out, encoding="utf-8") as f:
-            text = f.read()
-        # `-k` writes its verdict to the same output file as the hierarchy.
-        if "owl#Thing is satisfiable" not in text + p.stdout:
-            raise OracleError("HermiT did not confirm consistency of %s: %s" % (path, text[:500]))
+        return _answer(path, out, p.returncode, p.stdout, p.stderr), secs
+
+
+def _answer(path, out, returncode, stdout, stderr):
+    """The contract JSON from one HermiT run's hierarchy file and messages."""
+    if "InconsistentOntologyException" in stderr:
+        return {"consistent": False, "unsatisfiable": [], "subsumptions": []}
+    if returncode != 0 or not os.path.exists(out) or "pear-shaped" in stderr:
+        raise OracleError("HermiT failed on %s (exit %d): %s" % (path, returncode, stderr[-2000:]))
+    with open(out, encoding="utf-8") as f:
+        text = f.read()
+    # `-k` writes its verdict to the same output file as the hierarchy.
+    if "owl#Thing is satisfiable" not in text + stdout:
+        raise OracleError("HermiT did not confirm consistency of %s: %s" % (path, text[:500]))
     classes, edges, groups = parse_hierarchy(text)
     signature = (classes | declared_classes(path)) - {THING, NOTHING}
-    return closure_json(signature, edges, groups), secs
+    return closure_json(signature, edges, groups)
+
+
+class Batch:
+    """HermiT's command line run on many files in one JVM (scripts/HermitBatch.java).
+
+    Same entry class, options and answer conversion as `classify`; only the JVM start-up
+    is shared. The seconds returned are measured inside the JVM (no start-up), so they are
+    not comparable with `classify`'s wall times. A file that takes longer than `timeout`
+    kills the JVM (restarted for the next file) and raises OracleError.
+    """
+
+    def __init__(self, memory_mb=2000):
+        self.memory_mb = memory_mb
+        self.build = tempfile.mkdtemp(prefix="hermit-batch-")
+        here = os.path.dirname(os.path.abspath(__file__))
+        jar = os.path.join(hermit_dir(), "HermiT.jar")
+        subprocess.run(["javac", "-cp", jar, "-d", self.build,
+                        os.path.join(here, "HermitBatch.java")], check=True)
+        self.proc = None
+
+    def _start(self):
+        cmd = ["java", "-Xmx%dM" % self.memory_mb, "-cp",
+               classpath() + os.pathsep + self.build, "HermitBatch"]
+        self.proc = subprocess.Popen(cmd, stdin=subprocess.PIPE, stdout=subprocess.PIPE,
+                                     text=True, bufsize=1)
+
+    def close(self):
+        if self.proc is not None:
+            self.proc.kill()
+            self.proc.wait()
+            self.proc = None
+
+    def classify(self, path, timeout=120.0):
+        import select
+        if self.proc is None:
+            self._start()
+        with tempfile.TemporaryDirectory(prefix="hermit-") as tmp:
+            out = os.path.join(tmp, "hierarchy.ofn")
+            log = os.path.join(tmp, "log.txt")
+            src = os.path.abspath(_strip_comments(path, tmp))
+            self.proc.stdin.write("%s\t%s\t%s\n" % (src, out, log))
+            self.proc.stdin.flush()
+            ready, _, _ = select.select([self.proc.stdout], [], [], timeout)
+            line = self.proc.stdout.readline() if ready else ""
+            if not line.startswith("DONE\t"):
+                self.close()
+                raise OracleError("HermiT timed out after %.0f s on %s" % (timeout, path))
+            secs = float(line.split("\t")[1])
+            with open(log, encoding="utf-8", errors="replace") as f:
+                messages = f.read()
+            return _answer(path, out, 0, messages, messages), secs
 
 
 def pellet_classify(path, timeout=300.0):

@@ -52,6 +52,7 @@ HAND = {
     "cardinality": (True, ["A", "E", "M"],
                     [("H", "B"), ("H", "D"), ("B", "D"), ("K", "L")]),
     "inverse-forall": (True, [], [("X", "A"), ("Y", "A"), ("Z", "A")] + eq("X", "Y")),
+    "sat-cache-inverse": (True, ["U", "X1", "X3", "X4"], [("X2", "C")]),
     "transitivity": (True, ["Q"], [("X", "Y"), ("X", "Z"), ("Z", "Y"), ("R", "S")]),
     "functional": (True, ["X", "Y"], eq("U", "V")),
     "functional-abox": (False, [], []),

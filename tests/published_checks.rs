@@ -51,6 +51,10 @@ published! {
     qualified_cardinality_clashes: "cardinality", "hand-derived, SHIQ semantics";
     // ∃r.(∀r⁻.A) ⊑ A.
     inverse_with_forall: "inverse-forall", "hand-derived, SHIQ semantics";
+    // Satisfiability caching with inverse roles: a cached label still sends ¬X1 back through
+    // ∀r⁻, and an at-most restriction on s⁻ that counts the predecessor forces X2 ⊑ C.
+    sat_cache_with_inverse_roles: "sat-cache-inverse",
+        "hand-derived, SHIQ semantics; the caching traps of Horrocks & Sattler 1999 §5 and Ding & Haarslev 2006";
     // Trans(t), s ⊑ t: ∃s.∃s.C ⊑ ∃t.C.
     transitivity_through_sub_property: "transitivity", "hand-derived, SHIQ semantics";
     // Functional f, inverse-functional g: two different successors clash.
@@ -109,8 +113,8 @@ fn fixtures_parse_with_horned_owl() {
         .filter(|p| p.extension().is_some_and(|x| x == "ofn"))
         .collect();
     files.push(root.join("real/brick-1.1.ofn"));
-    // 18 published files (tests/fixtures/published/README.md) plus Brick.
-    assert_eq!(files.len(), 19);
+    // 19 published files (tests/fixtures/published/README.md) plus Brick.
+    assert_eq!(files.len(), 20);
     for f in files {
         let n = parse_with_horned_owl(&f).unwrap_or_else(|e| panic!("{e}"));
         assert!(n >= 2, "{}: only {n} components", f.display());

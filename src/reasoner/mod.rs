@@ -4,6 +4,7 @@
 //! Every answer is [`Answer::Yes`], [`Answer::No`] or [`Answer::Unknown`] with the limit that
 //! stopped the search; the reasoner never guesses.
 
+pub mod cache;
 pub mod classify;
 pub mod depset;
 pub mod prepare;
@@ -90,6 +91,8 @@ pub struct Stats {
     pub clashes: u64,
     /// Nodes merged.
     pub merges: u64,
+    /// Clashes and blocks answered by the satisfiability cache.
+    pub cache_hits: u64,
 }
 
 impl Stats {
@@ -101,6 +104,7 @@ impl Stats {
         self.backjumps += o.backjumps;
         self.clashes += o.clashes;
         self.merges += o.merges;
+        self.cache_hits += o.cache_hits;
     }
 }
 
@@ -123,6 +127,7 @@ pub struct Reasoner<'kb> {
     /// Work done so far.
     pub stats: Stats,
     consistent: Option<Answer>,
+    cache: cache::SatCache,
 }
 
 impl<'kb> Reasoner<'kb> {
@@ -146,6 +151,7 @@ impl<'kb> Reasoner<'kb> {
             limits: Limits::default(),
             stats: Stats::default(),
             consistent: None,
+            cache: cache::SatCache::default(),
         })
     }
 
@@ -176,9 +182,19 @@ impl<'kb> Reasoner<'kb> {
             &mut self.concepts,
             &self.kb.ranges,
             self.limits.clone(),
+            &mut self.cache,
         );
         let out = t.run(with_abox, query, extra);
         let mut s = t.stats;
+        drop(t);
+        // A concept test without extra assertions that fails proves the concept empty in
+        // every model of the KB; later tests reuse that (see `cache`).
+        if let (Outcome::Unsat, Some(q)) = (&out, query)
+            && extra.classes.is_empty()
+            && extra.roles.is_empty()
+        {
+            self.cache.record_unsat(q);
+        }
         s.tests = 1;
         self.stats.add(&s);
         out
@@ -241,6 +257,10 @@ impl<'kb> Reasoner<'kb> {
         }
         // Without nominals in the TBox, the ABox of a consistent KB does not affect concept
         // satisfiability (SHIQ has the disjoint-union model property), so tests skip it.
+        if self.cache.is_unsat(c) {
+            self.stats.cache_hits += 1;
+            return (Answer::No, None, false);
+        }
         let with_abox = self.prep.tbox_nominals;
         let (out, branched) = self.run_counting(with_abox, Some(c), &Extra::default());
         match out {

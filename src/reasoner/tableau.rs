@@ -4,8 +4,10 @@
 //! One solver state, declared parts: the completion [`Graph`] (copied at branching points,
 //! which is the trail), the branching stack, the dependency table and statistics.
 //! Optimisations: lazy unfolding of absorbed axioms, semantic branching with boolean
-//! constraint propagation, dependency-directed backjumping, pairwise blocking.
+//! constraint propagation, dependency-directed backjumping, pairwise blocking, and
+//! satisfiability caching kept sound with inverse roles (see [`super::cache`]).
 
+use super::cache::SatCache;
 use super::depset::{Dep, DepTable};
 use super::prepare::Prepared;
 use super::{Extra, Limit, Limits, Stats};
@@ -80,14 +82,73 @@ struct Edge {
     active: bool,
 }
 
+/// Elements per chunk of a [`Chunked`] vector.
+const CHUNK: usize = 64;
+
+/// A vector shared between the graph and its snapshots in chunks of copy-on-write elements:
+/// a snapshot copies one pointer per chunk (not per node), and dropping it releases as few,
+/// so branching and giving up on a large graph stay cheap.
+#[derive(Clone, Debug)]
+struct Chunked<T> {
+    chunks: Vec<Rc<Vec<Rc<T>>>>,
+    len: usize,
+}
+
+impl<T> Default for Chunked<T> {
+    fn default() -> Self {
+        Chunked {
+            chunks: Vec::new(),
+            len: 0,
+        }
+    }
+}
+
+impl<T: Clone> Chunked<T> {
+    fn len(&self) -> usize {
+        self.len
+    }
+    fn push(&mut self, v: T) {
+        if self.len.is_multiple_of(CHUNK) {
+            self.chunks.push(Rc::new(Vec::with_capacity(CHUNK)));
+        }
+        let last = self.chunks.last_mut().expect("a chunk");
+        Rc::make_mut(last).push(Rc::new(v));
+        self.len += 1;
+    }
+    /// The element for writing, copied first if a snapshot shares it.
+    fn get_mut(&mut self, i: usize) -> &mut T {
+        Rc::make_mut(&mut Rc::make_mut(&mut self.chunks[i / CHUNK])[i % CHUNK])
+    }
+    fn iter(&self) -> impl Iterator<Item = &T> {
+        self.chunks.iter().flat_map(|c| c.iter().map(|e| &**e))
+    }
+}
+
+impl<T> std::ops::Index<usize> for Chunked<T> {
+    type Output = T;
+    fn index(&self, i: usize) -> &T {
+        &self.chunks[i / CHUNK][i % CHUNK]
+    }
+}
+
 /// The completion graph.
 #[derive(Clone, Debug, Default)]
 struct Graph {
-    nodes: Vec<Rc<Node>>,
-    edges: Vec<Rc<Edge>>,
+    nodes: Chunked<Node>,
+    edges: Chunked<Edge>,
     ineq: Vec<(NodeId, NodeId, Dep)>,
     queue: VecDeque<NodeId>,
     ind_node: Vec<NodeId>,
+    /// A counter of changes, and for each node the time of its last change (a concept or an
+    /// edge added) and of its last ≤/choose scan that found nothing to do: a node needs
+    /// another scan only when it or a neighbour changed since. Kept in the graph so that a
+    /// snapshot restores them with the labels they describe.
+    clock: u64,
+    changed: Vec<u64>,
+    checked: Vec<u64>,
+    /// No node before this one has a disjunction left to decide: the ⊔ scan starts here
+    /// instead of at node 0 on every step.
+    or_from: NodeId,
 }
 
 #[derive(Clone, Debug)]
@@ -134,9 +195,25 @@ pub struct Model {
     pub root_label: Vec<ConceptId>,
 }
 
+/// How the generating rules treat a node (recomputed before each generating step).
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+enum Status {
+    /// Expanded by every rule.
+    Open,
+    /// Pairwise blocked by an earlier node.
+    Blocked,
+    /// Below a blocked or cached node.
+    Below,
+    /// Its label is a recorded satisfiable label that may be reused here.
+    Cached,
+}
+
 /// The tableau state.
 pub struct Tableau<'a> {
     prep: &'a Prepared,
+    cache: &'a mut SatCache,
+    use_labels: bool,
+    record: bool,
     concepts: &'a mut ConceptStore,
     ranges: &'a DataRangeStore,
     deps: DepTable,
@@ -148,6 +225,8 @@ pub struct Tableau<'a> {
     /// Counters for `--stats` and benchmarks.
     pub stats: Stats,
     query_root: Option<NodeId>,
+    /// A limit met inside a step; the search loop returns it.
+    stopped: Option<Limit>,
 }
 
 impl<'a> Tableau<'a> {
@@ -157,9 +236,13 @@ impl<'a> Tableau<'a> {
         concepts: &'a mut ConceptStore,
         ranges: &'a DataRangeStore,
         limits: Limits,
+        cache: &'a mut SatCache,
     ) -> Self {
         Tableau {
             prep,
+            cache,
+            use_labels: !prep.tbox_nominals,
+            record: false,
             concepts,
             ranges,
             deps: DepTable::default(),
@@ -170,12 +253,19 @@ impl<'a> Tableau<'a> {
             limits,
             stats: Stats::default(),
             query_root: None,
+            stopped: None,
         }
     }
 
     /// Decides satisfiability of the ABox (when `with_abox`) together with a fresh individual
     /// in `query` (when given).
     pub fn run(&mut self, with_abox: bool, query: Option<ConceptId>, extra: &Extra) -> Outcome {
+        // Only a pure concept test records labels: its graph is a tree below the query root.
+        self.record = self.use_labels
+            && !with_abox
+            && query.is_some()
+            && extra.classes.is_empty()
+            && extra.roles.is_empty();
         self.init(with_abox, query);
         for &(c, a) in &extra.classes {
             let n = self.ind(a);
@@ -190,11 +280,14 @@ impl<'a> Tableau<'a> {
 
     fn new_node(&mut self, parent: Option<NodeId>) -> NodeId {
         let id = self.g.nodes.len();
-        self.g.nodes.push(Rc::new(Node {
+        self.g.nodes.push(Node {
             parent,
             active: true,
             ..Default::default()
-        }));
+        });
+        self.g.clock += 1;
+        self.g.changed.push(self.g.clock);
+        self.g.checked.push(0);
         self.stats.nodes += 1;
         id
     }
@@ -205,9 +298,7 @@ impl<'a> Tableau<'a> {
         if with_abox {
             for i in 0..p.n_individuals {
                 let n = self.new_node(None);
-                Rc::make_mut(&mut self.g.nodes[n])
-                    .names
-                    .push(IndividualId(i as u32));
+                self.g.nodes.get_mut(n).names.push(IndividualId(i as u32));
                 self.g.ind_node.push(n);
             }
             for i in 0..p.n_individuals {
@@ -273,6 +364,12 @@ impl<'a> Tableau<'a> {
             self.set_clash(dep);
             return;
         }
+        if self.cache.is_unsat(c) {
+            // No element of any model is in c (a finished concept test said so).
+            self.stats.cache_hits += 1;
+            self.set_clash(dep);
+            return;
+        }
         let nc = self.concepts.not(c);
         if let Some(d2) = self.has(x, nc) {
             let d = self.deps.union(dep, d2);
@@ -286,12 +383,15 @@ impl<'a> Tableau<'a> {
             self.set_clash(dep);
             return;
         }
-        let node = Rc::make_mut(&mut self.g.nodes[x]);
+        let node = self.g.nodes.get_mut(x);
         node.label.push(c);
         node.deps.insert(c, dep);
         node.hash = node.hash.wrapping_add(mix(c.0 as u64));
         match concept {
-            Concept::Or(_) => node.ors.push(c),
+            Concept::Or(_) => {
+                node.ors.push(c);
+                self.g.or_from = self.g.or_from.min(x);
+            }
             Concept::Some(..) | Concept::AtLeast(..) => node.gens.push(c),
             Concept::AtMost(..) => node.at_mosts.push(c),
             Concept::All(..) => node.alls.push(c),
@@ -302,6 +402,20 @@ impl<'a> Tableau<'a> {
             node.in_queue = true;
             self.g.queue.push_back(x);
         }
+        self.g.clock += 1;
+        self.g.changed[x] = self.g.clock;
+    }
+
+    /// The time of the last change at x or at one of its neighbours.
+    fn last_change_around(&self, x: NodeId) -> u64 {
+        let mut m = self.g.changed[x];
+        for &e in &self.g.nodes[x].edges {
+            let ed = &self.g.edges[e];
+            if ed.active {
+                m = m.max(self.g.changed[ed.a]).max(self.g.changed[ed.b]);
+            }
+        }
+        m
     }
 
     fn set_clash(&mut self, d: Dep) {
@@ -350,31 +464,32 @@ impl<'a> Tableau<'a> {
             }
             None => {
                 let e = self.g.edges.len();
-                self.g.edges.push(Rc::new(Edge {
+                self.g.edges.push(Edge {
                     a: x,
                     b: y,
                     roles: Vec::new(),
                     active: true,
-                }));
-                Rc::make_mut(&mut self.g.nodes[x]).edges.push(e);
+                });
+                self.g.nodes.get_mut(x).edges.push(e);
                 if x != y {
-                    Rc::make_mut(&mut self.g.nodes[y]).edges.push(e);
+                    self.g.nodes.get_mut(y).edges.push(e);
                 }
                 (e, r)
             }
         };
-        Rc::make_mut(&mut self.g.edges[e])
-            .roles
-            .push((oriented, dep));
+        self.g.edges.get_mut(e).roles.push((oriented, dep));
         self.fire_edge(x, y, r, dep);
         if x == y {
             self.fire_edge(x, x, r.inverse(), dep);
         } else {
             self.fire_edge(y, x, r.inverse(), dep);
         }
+        self.g.clock += 1;
+        self.g.changed[x] = self.g.clock;
+        self.g.changed[y] = self.g.clock;
         for n in [x, y] {
             if !self.g.nodes[n].in_queue {
-                Rc::make_mut(&mut self.g.nodes[n]).in_queue = true;
+                self.g.nodes.get_mut(n).in_queue = true;
                 self.g.queue.push_back(n);
             }
         }
@@ -414,17 +529,25 @@ impl<'a> Tableau<'a> {
 
     /// Applies deterministic rules to queued nodes until none is left or a clash occurs.
     fn expand_deterministic(&mut self) {
+        let mut popped: u32 = 0;
         while self.clash.is_none() {
+            popped = popped.wrapping_add(1);
+            if popped.is_multiple_of(256)
+                && let Some(l) = self.limit_reached()
+            {
+                self.stopped = Some(l);
+                return;
+            }
             let Some(x) = self.g.queue.pop_front() else {
                 return;
             };
-            Rc::make_mut(&mut self.g.nodes[x]).in_queue = false;
+            self.g.nodes.get_mut(x).in_queue = false;
             if !self.g.nodes[x].active {
                 continue;
             }
             while self.clash.is_none() && self.g.nodes[x].cursor < self.g.nodes[x].label.len() {
                 let i = self.g.nodes[x].cursor;
-                Rc::make_mut(&mut self.g.nodes[x]).cursor += 1;
+                self.g.nodes.get_mut(x).cursor += 1;
                 let c = self.g.nodes[x].label[i];
                 let dep = self.g.nodes[x].deps[&c];
                 self.stats.expansions += 1;
@@ -512,7 +635,7 @@ impl<'a> Tableau<'a> {
             if !self.g.nodes[x].active || !self.g.nodes[x].data_dirty {
                 continue;
             }
-            Rc::make_mut(&mut self.g.nodes[x]).data_dirty = false;
+            self.g.nodes.get_mut(x).data_dirty = false;
             self.check_data_node(x);
         }
     }
@@ -600,9 +723,12 @@ impl<'a> Tableau<'a> {
     /// Horrocks 2009, §5, for taking the blocker anywhere earlier in the graph): a tree node x
     /// with parent x' is blocked by an earlier unblocked tree node y with parent y' when
     /// L(x)=L(y), L(x')=L(y') and the edges x'→x and y'→y carry the same roles.
-    fn blocked_all(&self) -> Vec<bool> {
+    ///
+    /// Before the blocking test, a node whose label may reuse a recorded satisfiable label
+    /// is marked [`Status::Cached`] (the rule of reuse in [`super::cache`]).
+    fn blocked_all(&mut self) -> Vec<Status> {
         let n = self.g.nodes.len();
-        let mut blocked = vec![false; n];
+        let mut blocked = vec![Status::Open; n];
         let mut seen: HashMap<(u64, u64, Vec<RoleId>), Vec<NodeId>> = HashMap::new();
         for x in 0..n {
             let node = &self.g.nodes[x];
@@ -610,11 +736,18 @@ impl<'a> Tableau<'a> {
                 continue;
             }
             let xp = node.parent.expect("tree node has a parent");
-            if blocked[xp] {
-                blocked[x] = true;
+            if blocked[xp] != Status::Open {
+                blocked[x] = Status::Below;
                 continue;
             }
-            let key = (node.hash, self.g.nodes[xp].hash, self.edge_roles(xp, x));
+            let roles = self.edge_roles(xp, x);
+            if self.use_labels && self.reusable(x, &roles) {
+                self.stats.cache_hits += 1;
+                blocked[x] = Status::Cached;
+                continue;
+            }
+            let node = &self.g.nodes[x];
+            let key = (node.hash, self.g.nodes[xp].hash, roles);
             let blocker = seen.get(&key).and_then(|cands| {
                 cands.iter().copied().find(|&y| {
                     let yp = self.g.nodes[y].parent.expect("tree node");
@@ -622,12 +755,55 @@ impl<'a> Tableau<'a> {
                 })
             });
             if blocker.is_some() {
-                blocked[x] = true;
+                blocked[x] = Status::Blocked;
             } else {
                 seen.entry(key).or_default().push(x);
             }
         }
         blocked
+    }
+
+    /// The rule of reuse (see [`super::cache`]): x's label is a recorded satisfiable label
+    /// and none of its at-most restrictions counts the predecessor, reached from x by the
+    /// inverses of `roles` (the roles on the edge predecessor → x).
+    fn reusable(&self, x: NodeId, roles: &[RoleId]) -> bool {
+        let node = &self.g.nodes[x];
+        if !self
+            .cache
+            .is_sat_label(node.hash, node.deps.0.iter().map(|e| e.0))
+        {
+            return false;
+        }
+        !node.at_mosts.iter().any(|&c| match *self.concepts.get(c) {
+            Concept::AtMost(_, s, _) => roles.iter().any(|&r| self.prep.is_sub(r.inverse(), s)),
+            _ => false,
+        })
+    }
+
+    /// Records the final labels of a complete graph whose ∃/≥ demands their own subtrees
+    /// meet (the recording condition in [`super::cache`]).
+    fn record_labels(&mut self, status: &[Status]) {
+        for (x, &st) in status.iter().enumerate() {
+            let node = &self.g.nodes[x];
+            if !node.active || st != Status::Open || !node.names.is_empty() {
+                continue;
+            }
+            if let Some(p) = node.parent {
+                let roles = self.edge_roles(p, x);
+                let leans_on_parent = node.gens.iter().any(|&c| match *self.concepts.get(c) {
+                    Concept::Some(s, _) | Concept::AtLeast(_, s, _) => {
+                        roles.iter().any(|&r| self.prep.is_sub(r.inverse(), s))
+                    }
+                    _ => false,
+                });
+                if leans_on_parent {
+                    continue;
+                }
+            }
+            let node = &self.g.nodes[x];
+            let label: Vec<ConceptId> = node.deps.0.iter().map(|e| e.0).collect();
+            self.cache.record_sat(node.hash, label);
+        }
     }
 
     fn same_label(&self, a: NodeId, b: NodeId) -> bool {
@@ -675,7 +851,11 @@ impl<'a> Tableau<'a> {
     fn nondeterministic(&mut self, indirectly_blocked: &[bool]) -> bool {
         // ≤ and choose rules.
         for x in 0..self.g.nodes.len() {
-            if !self.g.nodes[x].active || self.is_indirectly_blocked(x, indirectly_blocked) {
+            if !self.g.nodes[x].active
+                || self.g.nodes[x].at_mosts.is_empty()
+                || self.is_indirectly_blocked(x, indirectly_blocked)
+                || self.g.checked[x] >= self.last_change_around(x)
+            {
                 continue;
             }
             for c in self.g.nodes[x].at_mosts.clone() {
@@ -729,12 +909,21 @@ impl<'a> Tableau<'a> {
                 self.branch(Choice::Merge { options: pairs }, base);
                 return true;
             }
+            self.g.checked[x] = self.g.clock;
         }
         // ⊔ rule with boolean constraint propagation. Satisfied disjunctions are dropped
         // from the node's pending list (labels only grow until a backtrack restores the
         // snapshot, so a satisfied disjunction stays satisfied).
-        for x in 0..self.g.nodes.len() {
-            if !self.g.nodes[x].active || self.is_indirectly_blocked(x, indirectly_blocked) {
+        let mut clean_so_far = true;
+        for x in self.g.or_from..self.g.nodes.len() {
+            if !self.g.nodes[x].active || self.g.nodes[x].ors.is_empty() {
+                if clean_so_far {
+                    self.g.or_from = x + 1;
+                }
+                continue;
+            }
+            if self.is_indirectly_blocked(x, indirectly_blocked) {
+                clean_so_far = false;
                 continue;
             }
             let mut satisfied: Vec<ConceptId> = Vec::new();
@@ -751,11 +940,18 @@ impl<'a> Tableau<'a> {
                 }
             }
             if !satisfied.is_empty() {
-                Rc::make_mut(&mut self.g.nodes[x])
+                self.g
+                    .nodes
+                    .get_mut(x)
                     .ors
                     .retain(|c| !satisfied.contains(c));
             }
-            let Some(c) = pick else { continue };
+            let Some(c) = pick else {
+                if clean_so_far {
+                    self.g.or_from = x + 1;
+                }
+                continue;
+            };
             let Concept::Or(xs) = self.concepts.get(c).clone() else {
                 continue;
             };
@@ -921,8 +1117,8 @@ impl<'a> Tableau<'a> {
             .iter()
             .map(|c| (*c, self.g.nodes[y].deps[c]))
             .collect();
-        let names = std::mem::take(&mut Rc::make_mut(&mut self.g.nodes[y]).names);
-        Rc::make_mut(&mut self.g.nodes[z]).names.extend(names);
+        let names = std::mem::take(&mut self.g.nodes.get_mut(y).names);
+        self.g.nodes.get_mut(z).names.extend(names);
         let edges = self.g.nodes[y].edges.clone();
         let mut moved: Vec<(NodeId, RoleId, Dep)> = Vec::new();
         for e in edges {
@@ -931,7 +1127,7 @@ impl<'a> Tableau<'a> {
             }
             let (a, b) = (self.g.edges[e].a, self.g.edges[e].b);
             let roles = self.g.edges[e].roles.clone();
-            Rc::make_mut(&mut self.g.edges[e]).active = false;
+            self.g.edges.get_mut(e).active = false;
             let other = if a == y { b } else { a };
             if other != y
                 && self.g.nodes[other].parent == Some(y)
@@ -951,8 +1147,8 @@ impl<'a> Tableau<'a> {
                 }
             }
         }
-        Rc::make_mut(&mut self.g.nodes[y]).active = false;
-        Rc::make_mut(&mut self.g.nodes[y]).merged_into = Some(z);
+        self.g.nodes.get_mut(y).active = false;
+        self.g.nodes.get_mut(y).merged_into = Some(z);
         for (c, d) in label {
             let d = self.deps.union(d, dep);
             self.add(z, c, d);
@@ -979,7 +1175,7 @@ impl<'a> Tableau<'a> {
         self.g.ineq = ineq;
         // The survivor's at-most restrictions need another look.
         if !self.g.nodes[z].in_queue {
-            Rc::make_mut(&mut self.g.nodes[z]).in_queue = true;
+            self.g.nodes.get_mut(z).in_queue = true;
             self.g.queue.push_back(z);
         }
     }
@@ -990,7 +1186,7 @@ impl<'a> Tableau<'a> {
             if !self.g.nodes[n].active {
                 continue;
             }
-            Rc::make_mut(&mut self.g.nodes[n]).active = false;
+            self.g.nodes.get_mut(n).active = false;
             for e in self.g.nodes[n].edges.clone() {
                 if !self.g.edges[e].active {
                     continue;
@@ -1000,7 +1196,7 @@ impl<'a> Tableau<'a> {
                 } else {
                     self.g.edges[e].a
                 };
-                Rc::make_mut(&mut self.g.edges[e]).active = false;
+                self.g.edges.get_mut(e).active = false;
                 if self.g.nodes[other].parent == Some(n) && self.g.nodes[other].names.is_empty() {
                     stack.push(other);
                 }
@@ -1010,9 +1206,9 @@ impl<'a> Tableau<'a> {
 
     /// Applies the generating rules (∃, ≥) to the first node that needs them.
     #[allow(clippy::needless_range_loop)]
-    fn generate(&mut self, blocked: &[bool]) -> bool {
+    fn generate(&mut self, blocked: &[Status]) -> bool {
         for x in 0..self.g.nodes.len() {
-            if !self.g.nodes[x].active || blocked[x] {
+            if !self.g.nodes[x].active || blocked[x] != Status::Open {
                 continue;
             }
             let mut did = false;
@@ -1113,21 +1309,28 @@ impl<'a> Tableau<'a> {
         y
     }
 
+    /// The time or cancellation limit, when reached.
+    fn limit_reached(&self) -> Option<Limit> {
+        if let Some(dl) = self.limits.deadline
+            && std::time::Instant::now() >= dl
+        {
+            return Some(Limit::Time);
+        }
+        if let Some(flag) = &self.limits.cancel
+            && flag.load(std::sync::atomic::Ordering::Relaxed)
+        {
+            return Some(Limit::Cancelled);
+        }
+        None
+    }
+
     fn search(&mut self) -> Outcome {
-        let mut iter: u64 = 0;
         loop {
-            iter += 1;
-            if iter.is_multiple_of(64) {
-                if let Some(dl) = self.limits.deadline
-                    && std::time::Instant::now() >= dl
-                {
-                    return Outcome::Unknown(Limit::Time);
-                }
-                if let Some(flag) = &self.limits.cancel
-                    && flag.load(std::sync::atomic::Ordering::Relaxed)
-                {
-                    return Outcome::Unknown(Limit::Cancelled);
-                }
+            // Every step, and inside the long deterministic phase too: a step on a large
+            // graph can take a second, so checking only every few steps let `--timeout`
+            // overshoot.
+            if let Some(l) = self.stopped.or_else(|| self.limit_reached()) {
+                return Outcome::Unknown(l);
             }
             if self.stats.nodes > self.limits.max_nodes {
                 return Outcome::Unknown(Limit::Nodes);
@@ -1140,7 +1343,7 @@ impl<'a> Tableau<'a> {
                 continue;
             }
             self.expand_deterministic();
-            if self.clash.is_some() {
+            if self.clash.is_some() || self.stopped.is_some() {
                 continue;
             }
             self.check_data();
@@ -1153,6 +1356,9 @@ impl<'a> Tableau<'a> {
             let blocked = self.blocked_all();
             if self.generate(&blocked) {
                 continue;
+            }
+            if self.record {
+                self.record_labels(&blocked);
             }
             return Outcome::Sat(self.model());
         }
@@ -1170,7 +1376,7 @@ impl<'a> Tableau<'a> {
                 .entry(self.ind(IndividualId(i as u32)))
                 .or_insert(IndividualId(i as u32));
         }
-        for e in &self.g.edges {
+        for e in self.g.edges.iter() {
             if !e.active {
                 continue;
             }

@@ -19,6 +19,8 @@ use std::path::{Path, PathBuf};
 pub const SPATIAL_OFN: &str = include_str!("../ontologies/spatial.ofn");
 /// The demo's abdomen ontology, shipped in the binary.
 pub const ABDOMEN_OFN: &str = include_str!("../ontologies/abdomen.ofn");
+/// The examples' check suite (examples/cases.toml), shipped in the binary.
+pub const EXAMPLES_CASES: &str = include_str!("../examples/cases.toml");
 
 const ABD: &str = "https://wherefore.example.org/ns/abdomen#";
 
@@ -273,4 +275,22 @@ pub fn run(dir: &Path) -> Result<Vec<CaseOutcome>, String> {
         });
     }
     Ok(outcomes)
+}
+
+/// The examples' case file as the demo writes it: the KB paths point at the demo's own
+/// `ontologies/` folder instead of the repository's `../ontologies/`.
+pub fn examples_cases() -> String {
+    EXAMPLES_CASES.replace("\"../ontologies/", "\"ontologies/")
+}
+
+/// Writes `dir/cases.toml` (the examples' suite) and runs it over the case folders the demo
+/// wrote, in process, through the check library.
+pub fn run_examples(dir: &Path) -> Result<Vec<crate::check::CaseResult>, String> {
+    let path = dir.join("cases.toml");
+    write(&path, examples_cases().as_bytes())?;
+    let suite = crate::check::load_paths(&[path]).map_err(|e| e.to_string())?;
+    Ok(crate::check::run_suite(
+        &suite.cases,
+        &crate::check::RunOptions::default(),
+    ))
 }

@@ -5,7 +5,7 @@ use std::collections::BTreeMap;
 use std::path::Path;
 use std::process::Command;
 
-fn run_demo(dir: &Path) {
+fn run_demo(dir: &Path) -> String {
     let out = Command::new(env!("CARGO_BIN_EXE_wherefore"))
         .args(["demo", "--out", dir.to_str().unwrap()])
         .output()
@@ -15,6 +15,7 @@ fn run_demo(dir: &Path) {
         "{}",
         String::from_utf8_lossy(&out.stderr)
     );
+    String::from_utf8_lossy(&out.stdout).to_string()
 }
 
 fn files(dir: &Path) -> BTreeMap<String, Vec<u8>> {
@@ -44,8 +45,14 @@ fn report(dir: &Path, case: &str) -> Value {
 fn demo_is_complete_deterministic_and_cautious() {
     let base = std::env::temp_dir().join(format!("wf-demo-{}", std::process::id()));
     let (a, b) = (base.join("a"), base.join("b"));
-    run_demo(&a);
+    let stdout = run_demo(&a);
     run_demo(&b);
+    // The demo runs the examples' suite (examples/cases.toml: six hand-derived cases) and
+    // says so; it exits non-zero when a case fails, so reaching here means all passed.
+    assert!(
+        stdout.contains("example suite: 6 passed, 0 failed"),
+        "{stdout}"
+    );
     let fa = files(&a);
     let fb = files(&b);
     assert_eq!(fa.keys().collect::<Vec<_>>(), fb.keys().collect::<Vec<_>>());
@@ -60,6 +67,27 @@ fn demo_is_complete_deterministic_and_cautious() {
         "05-pancreatic-lesion",
         "06-perivascular-mass",
     ];
+    // examples/ holds the builder's output byte for byte: the examples are generated
+    // deterministically by the demo's volume builder (examples/README.md).
+    let examples = Path::new(env!("CARGO_MANIFEST_DIR")).join("examples");
+    for c in cases {
+        for f in [
+            "organs.nii.gz",
+            "lesions.nii.gz",
+            "labels.tsv",
+            "facts.json",
+        ] {
+            let shipped = std::fs::read(examples.join(c).join(f)).unwrap();
+            assert!(
+                shipped == fa[&format!("{c}/{f}")],
+                "examples/{c}/{f} differs from what the demo builds; regenerate it"
+            );
+        }
+    }
+    // The demo's case file is the examples' suite with its KB paths pointing into DIR.
+    let written = String::from_utf8(fa["cases.toml"].clone()).unwrap();
+    assert!(written.contains("\"ontologies/abdomen.ofn\""), "{written}");
+    assert!(!written.contains("../ontologies/"));
     for c in cases {
         for f in ["facts.json", "report.json", "report.md", "report.html"] {
             assert!(fa.contains_key(&format!("{c}/{f}")), "{c}/{f} missing");

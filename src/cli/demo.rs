@@ -20,6 +20,20 @@ pub fn run(args: DemoArgs) -> i32 {
     );
     match crate::demo::run(&args.out) {
         Ok(outcomes) => {
+            // The examples' regression suite over the folders just written.
+            let results = match crate::demo::run_examples(&args.out) {
+                Ok(r) => r,
+                Err(e) => {
+                    eprintln!("error: demo: example suite: {e}");
+                    return super::EXIT_BAD_INPUT;
+                }
+            };
+            let (passed, failed, errors) = crate::check::diff::counts(&results);
+            let mut line = format!("example suite: {passed} passed, {failed} failed");
+            if errors > 0 {
+                line.push_str(&format!(", {errors} could not run"));
+            }
+            println!("{line} ({})", args.out.join("cases.toml").display());
             for o in &outcomes {
                 println!("\n{}", o.id);
                 match &o.top {
@@ -42,6 +56,16 @@ pub fn run(args: DemoArgs) -> i32 {
                 start.elapsed().as_secs_f64(),
                 crate::render::CAUTION
             );
+            if failed + errors > 0 {
+                for r in results
+                    .iter()
+                    .filter(|r| r.status != crate::check::Status::Pass)
+                {
+                    eprint!("{}", crate::check::diff::case_text(r));
+                }
+                eprintln!("error: demo: the example suite did not pass");
+                return super::EXIT_FAILED;
+            }
             super::EXIT_OK
         }
         Err(e) => {

@@ -457,3 +457,18 @@ fn regression_cases_run_against_the_edited_session_kb() {
     assert!(after.contains("2 passed, 1 failed"), "{after}");
     assert!(s.execute("check").is_err());
 }
+
+#[test]
+fn questions_naming_individuals_use_the_abox() {
+    // Jack and Jill (Hlávková, Homola, Koopmann & Pukancová, DL 2022): K = {Mother ⊔ Father ⊑
+    // Parent, Parent ⊑ Happy, Person(jack), Parent(jill)}. The KB's TBox has no nominal, so
+    // a question with {a} must still see the ABox: {jill} ⊑ Happy holds, {jack} ⊑ Happy and
+    // {jack, jill} ⊑ Person do not (jill is not said to be a person).
+    let mut s = Session::default();
+    s.load_files(&[PathBuf::from("tests/fixtures/explain/jack-jill.ofn")])
+        .unwrap();
+    let ask = |s: &mut Session, q: &str| s.execute(&format!("ask {q}")).unwrap();
+    assert!(ask(&mut s, "{jill} SubClassOf Happy").starts_with("Yes"));
+    assert!(ask(&mut s, "{jack} SubClassOf Happy").starts_with("No"));
+    assert!(ask(&mut s, "{jack, jill} SubClassOf Person").starts_with("No"));
+}

@@ -180,15 +180,8 @@ fn batch(args: &ReportArgs, kb: &KnowledgeBase, manifest: &Path) -> i32 {
         },
     };
     let base = manifest.parent().unwrap_or(Path::new("."));
-    let selected: Vec<&ManifestCase> = m
-        .case
-        .iter()
-        .enumerate()
-        .filter(|(k, _)| k % shards == shard - 1)
-        .map(|(_, c)| c)
-        .collect();
     let mut seen = std::collections::BTreeSet::new();
-    for c in &selected {
+    for c in &m.case {
         if !seen.insert(c.id.as_str()) {
             return bad(format!(
                 "{}: case id {:?} appears twice; ids name output folders and must be unique",
@@ -197,6 +190,13 @@ fn batch(args: &ReportArgs, kb: &KnowledgeBase, manifest: &Path) -> i32 {
             ));
         }
     }
+    let selected: Vec<&ManifestCase> = m
+        .case
+        .iter()
+        .enumerate()
+        .filter(|(k, _)| k % shards == shard - 1)
+        .map(|(_, c)| c)
+        .collect();
     let progress = if std::io::stderr().is_terminal() {
         let pb = indicatif::ProgressBar::new(selected.len() as u64);
         pb.set_style(
@@ -354,7 +354,16 @@ fn run_case(
     };
     std::fs::create_dir_all(dir).map_err(|e| format!("{}: cannot create: {e}", dir.display()))?;
     let report = render::report_for(kb, &facts, &c.id, &c.id, args.alpha, args.max_size)?;
-    let w = |name: &str, bytes: &[u8]| write_atomic(&dir.join(name), bytes, &[]);
+    // Never write over an input: the case's own files and the KB.
+    let inputs: Vec<PathBuf> = c
+        .facts
+        .iter()
+        .chain(c.maps.iter().flatten())
+        .chain(c.labels.iter())
+        .map(|p| base.join(p))
+        .chain(args.kb.iter().cloned())
+        .collect();
+    let w = |name: &str, bytes: &[u8]| write_atomic(&dir.join(name), bytes, &inputs);
     if c.facts.is_none() {
         w("facts.json", facts.to_json().as_bytes())?;
     }

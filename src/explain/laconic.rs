@@ -30,7 +30,9 @@ pub struct Laconic {
 const MAX_TESTS: usize = 400;
 
 /// One laconic justification derived from `justification` (indices of `kb.axioms`, which
-/// together entail the target). Returns the pieces unchanged if the test budget runs out.
+/// together entail the target). If the test budget runs out, the weakenings found so far are
+/// kept and the pieces are still shrunk to a minimal entailing set, which may then not be
+/// fully laconic.
 pub fn laconic(
     kb: &KnowledgeBase,
     justification: &[usize],

@@ -261,7 +261,9 @@ impl<'kb> Reasoner<'kb> {
             self.stats.cache_hits += 1;
             return (Answer::No, None, false);
         }
-        let with_abox = self.prep.tbox_nominals;
+        // A question that names an individual ({a}, ∃r.{a}) needs the individuals' nodes too;
+        // with them the test is no longer a pure concept test, so it records no labels.
+        let with_abox = self.prep.tbox_nominals || mentions_nominal(&self.concepts, c);
         let (out, branched) = self.run_counting(with_abox, Some(c), &Extra::default());
         match out {
             Outcome::Sat(m) => (Answer::Yes, Some(m), branched),
@@ -312,4 +314,16 @@ fn negate(a: Answer) -> Answer {
         Answer::No => Answer::Yes,
         u => u,
     }
+}
+
+/// Whether a concept mentions a nominal anywhere inside it.
+fn mentions_nominal(cs: &ConceptStore, c: ConceptId) -> bool {
+    let mut stack = vec![c];
+    while let Some(x) = stack.pop() {
+        match cs.get(x) {
+            crate::kb::Concept::Nominal(_) | crate::kb::Concept::NotNominal(_) => return true,
+            _ => stack.extend_from_slice(cs.children(x)),
+        }
+    }
+    false
 }

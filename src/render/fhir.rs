@@ -63,6 +63,7 @@ pub fn diagnostic_report(r: &Report) -> String {
             .iter()
             .map(|(t, d)| json!({"text": format!("{t} (degree {d:.2})")}))
             .collect();
+        notes.insert(0, json!({"text": r.caution.clone()}));
         notes.push(json!({"text": format!(
             "Centroid at RAS ({:.1}, {:.1}, {:.1}) mm.",
             f.centroid_mm[0], f.centroid_mm[1], f.centroid_mm[2]

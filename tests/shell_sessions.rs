@@ -32,8 +32,8 @@ fn strip_times(s: &str) -> String {
     out
 }
 
-/// Runs a script and returns the transcript (commands and outputs, errors included).
-fn transcript(s: &mut Session, script: &str) -> String {
+/// Runs a script and returns the session log (commands and outputs, errors included).
+fn session_log(s: &mut Session, script: &str) -> String {
     let mut out = String::new();
     for line in script.lines() {
         if line.trim().is_empty() {
@@ -62,7 +62,7 @@ fn bin() -> PathBuf {
 #[test]
 fn every_command_on_the_organs_fixture() {
     let mut s = Session::default();
-    let t = transcript(
+    let t = session_log(
         &mut s,
         &format!(
             "help
@@ -119,7 +119,7 @@ quit"
 fn ambiguous_labels_and_bad_input_never_end_the_session() {
     let mut s = Session::default();
     s.load_files(&[PathBuf::from(ORGANS)]).unwrap();
-    let t = transcript(
+    let t = session_log(
         &mut s,
         "show node
 ask Liver SubClassOf Kidnee
@@ -154,7 +154,7 @@ fn reload_after_the_file_changed_keeps_the_edits() {
     std::fs::copy(ORGANS, &file).unwrap();
     let mut s = Session::default();
     s.load_files(std::slice::from_ref(&file)).unwrap();
-    let mut t = transcript(
+    let mut t = session_log(
         &mut s,
         "add :Spleen SubClassOf Organ
 reload
@@ -164,7 +164,7 @@ ask Lesion SubClassOf Finding",
     let changed = text.trim_end().trim_end_matches(')').to_string()
         + "Declaration(Class(:Finding))\nSubClassOf(:Lesion :Finding)\n)\n";
     std::fs::write(&file, changed).unwrap();
-    t.push_str(&transcript(
+    t.push_str(&session_log(
         &mut s,
         "reload
 ask Lesion SubClassOf Finding
@@ -188,7 +188,7 @@ fn save_round_trips_through_the_parser() {
     let mut s = Session::default();
     s.load_files(std::slice::from_ref(&file)).unwrap();
     let out = dir.join("edited.ofn");
-    let t = transcript(
+    let t = session_log(
         &mut s,
         &format!(
             "add :Spleen SubClassOf Organ and (partOf only not Lesion)
@@ -208,7 +208,7 @@ status",
             .contains("SubClassOf(<http://ex.org/organs#Cyst> <http://ex.org/organs#Lesion>)")
     );
     // Saving over the loaded file needs a confirmation and keeps the old version.
-    let t2 = transcript(
+    let t2 = session_log(
         &mut s,
         "add :Gut SubClassOf Organ\nsave\nsave --yes\nstatus",
     );
@@ -252,7 +252,7 @@ fn saving_to_an_unwritable_place_keeps_the_edits() {
 #[test]
 fn demo_kb_facts_as_observations_and_background() {
     let mut s = Session::default();
-    let t = transcript(
+    let t = session_log(
         &mut s,
         "load ontologies/abdomen.ofn
 import tests/fixtures/shell/deep-liver-lesion.facts.json as observations
@@ -273,7 +273,7 @@ ask lesion1 Type FocalLesion",
 #[test]
 fn unload_and_a_second_file() {
     let mut s = Session::default();
-    let t = transcript(
+    let t = session_log(
         &mut s,
         &format!(
             "load {ORGANS} tests/fixtures/explain/jack-jill.ofn

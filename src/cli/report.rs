@@ -215,13 +215,7 @@ fn batch(args: &ReportArgs, kb: &KnowledgeBase, manifest: &Path) -> i32 {
             Err("the id must be a plain folder name".to_string())
         } else {
             let dir = out.join(&c.id);
-            let inputs: Vec<PathBuf> = c
-                .facts
-                .iter()
-                .chain(c.maps.iter().flatten())
-                .chain(c.labels.iter())
-                .map(|p| base.join(p))
-                .collect();
+            let inputs = c.inputs(base);
             if !args.force && is_fresh(&dir.join("report.json"), &inputs) {
                 Ok(None)
             } else {
@@ -307,6 +301,18 @@ fn batch(args: &ReportArgs, kb: &KnowledgeBase, manifest: &Path) -> i32 {
     }
 }
 
+impl ManifestCase {
+    /// The case's input files (facts, or label maps and their table), relative to `base`.
+    fn inputs(&self, base: &Path) -> Vec<PathBuf> {
+        self.facts
+            .iter()
+            .chain(self.maps.iter().flatten())
+            .chain(self.labels.iter())
+            .map(|p| base.join(p))
+            .collect()
+    }
+}
+
 /// What became of one case of a batch.
 struct CaseOutcome {
     id: String,
@@ -355,14 +361,8 @@ fn run_case(
     std::fs::create_dir_all(dir).map_err(|e| format!("{}: cannot create: {e}", dir.display()))?;
     let report = render::report_for(kb, &facts, &c.id, &c.id, args.alpha, args.max_size)?;
     // Never write over an input: the case's own files and the KB.
-    let inputs: Vec<PathBuf> = c
-        .facts
-        .iter()
-        .chain(c.maps.iter().flatten())
-        .chain(c.labels.iter())
-        .map(|p| base.join(p))
-        .chain(args.kb.iter().cloned())
-        .collect();
+    let mut inputs = c.inputs(base);
+    inputs.extend(args.kb.iter().cloned());
     let w = |name: &str, bytes: &[u8]| write_atomic(&dir.join(name), bytes, &inputs);
     if c.facts.is_none() {
         w("facts.json", facts.to_json().as_bytes())?;

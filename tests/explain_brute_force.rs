@@ -87,6 +87,21 @@ fn problem_text(seed: u64) -> (String, String, String) {
         let c = ["A", "B", "C"][rng.below(3) as usize];
         kb.push_str(&format!("SubClassOf({lhs} :{c})\n"));
     }
+    // Role characteristics and equalities, where ABox parts could stop being independent.
+    if rng.below(4) == 0 {
+        kb.push_str("FunctionalObjectProperty(:r)\n");
+    }
+    if rng.below(4) == 0 {
+        kb.push_str("Declaration(ObjectProperty(:s))\nInverseObjectProperties(:s :r)\n");
+        let lhs = concept(&mut rng, 0);
+        let c = ["A", "B", "C"][rng.below(3) as usize];
+        kb.push_str(&format!(
+            "SubClassOf(ObjectSomeValuesFrom(:s {lhs}) :{c})\n"
+        ));
+    }
+    if rng.below(6) == 0 {
+        kb.push_str("SameIndividual(:b :c)\n");
+    }
     if rng.below(2) == 0 {
         kb.push_str("ObjectPropertyAssertion(:r :a :b)\n");
     }
@@ -102,8 +117,12 @@ fn problem_text(seed: u64) -> (String, String, String) {
         let i = INDS[rng.below(2) as usize];
         obs.push_str(&format!("ClassAssertion(:{c} :{i})\n"));
     }
+    let role_observation = rng.below(5) == 0;
+    if role_observation {
+        obs.push_str("ObjectPropertyAssertion(:r :a :c)\n");
+    }
     let mut abd = String::from("class urn:bf#H0\nclass urn:bf#H1\nclass urn:bf#H2\n");
-    if rng.below(4) == 0 {
+    if role_observation || rng.below(4) == 0 {
         abd.push_str("property urn:bf#r\n");
     }
     (kb, obs, abd)
@@ -302,10 +321,16 @@ fn dump_oracle_queries() {
         let body = kb.trim_end().strip_suffix(')').unwrap().to_string();
         let negated: Vec<String> = obs
             .lines()
-            .filter_map(|l| l.strip_prefix("ClassAssertion("))
-            .map(|rest| {
-                let (c, a) = rest.trim_end_matches(')').split_once(' ').unwrap();
-                format!("ClassAssertion(ObjectComplementOf({c}) {a})")
+            .filter(|l| !l.starts_with("Prefix("))
+            .map(|l| match l.strip_prefix("ClassAssertion(") {
+                Some(rest) => {
+                    let (c, a) = rest.trim_end_matches(')').split_once(' ').unwrap();
+                    format!("ClassAssertion(ObjectComplementOf({c}) {a})")
+                }
+                None => l.replace(
+                    "ObjectPropertyAssertion(",
+                    "NegativeObjectPropertyAssertion(",
+                ),
             })
             .collect();
         for (k, e) in our_explanations(seed).iter().enumerate() {

@@ -4,7 +4,7 @@
 
 use super::CheckError;
 use super::suite::{
-    CaseSpec, Expect, Input, Item1, Register, abbreviate, expand_name, prefix_header,
+    CaseSpec, Expect, Expectation, Input, Item1, Register, abbreviate, expand_name, prefix_header,
 };
 use crate::explain::case::{Mark, case_problem, observations_problem, read_abducibles};
 use crate::explain::{Assertion, ExplainOptions, Problem, explain};
@@ -85,6 +85,38 @@ pub struct Check {
     pub actual: Vec<String>,
     /// How `accept` would make it pass.
     pub fix: Fix,
+}
+
+/// A check over listed items that must each be answered Yes (`positive`) or No. `answers`
+/// holds each item's short text, its answer and the answer in words; items answered wrongly
+/// (not merely undecided) are the ones `accept` moves to the list `to`.
+fn yes_no_check(
+    e: &Expectation,
+    positive: bool,
+    answers: Vec<(String, Answer, String)>,
+    to: &'static str,
+) -> Check {
+    let want = if positive { Answer::Yes } else { Answer::No };
+    let (mut expected, mut actual, mut wrong) = (Vec::new(), Vec::new(), Vec::new());
+    for (n, (text, a, word)) in answers.into_iter().enumerate() {
+        expected.push(text.clone());
+        if a == want {
+            actual.push(text);
+        } else {
+            actual.push(format!("{word}: {text}"));
+            if !matches!(a, Answer::Unknown(_)) {
+                wrong.push(n);
+            }
+        }
+    }
+    Check {
+        key: e.key.clone(),
+        line: e.line,
+        passed: expected == actual,
+        expected,
+        actual,
+        fix: Fix::Move { items: wrong, to },
+    }
 }
 
 /// The result of a case.
@@ -537,10 +569,8 @@ fn evaluate(
         for (i, v) in &queries {
             let e = &c.expect[*i];
             let positive = matches!(e.expect, Expect::Entailed(_));
-            let mut expected = Vec::new();
-            let mut actual = Vec::new();
-            let mut wrong = Vec::new();
-            for (n, (ax, text)) in v.iter().enumerate() {
+            let mut answers = Vec::new();
+            for (ax, text) in v {
                 let a = match *ax {
                     Axiom::ClassAssertion(k, a) => r.entails_class_assertion(k, a),
                     Axiom::RoleAssertion(p, a, b) => r.entails_role_assertion(p, a, b),
@@ -552,41 +582,21 @@ fn evaluate(
                 }
                 let word = answer_word(a, "entailed", "not entailed");
                 outcome.entailments.insert(text.clone(), word.clone());
-                let ok = a == if positive { Answer::Yes } else { Answer::No };
-                expected.push(short(text));
-                if ok {
-                    actual.push(short(text));
+                let why = if cons == Answer::No {
+                    " (the KB with the case is inconsistent, so it entails everything)"
                 } else {
-                    let why = if cons == Answer::No {
-                        " (the KB with the case is inconsistent, so it entails everything)"
-                    } else {
-                        ""
-                    };
-                    actual.push(format!("{word}{why}: {}", short(text)));
-                    if !matches!(a, Answer::Unknown(_)) {
-                        wrong.push(n);
-                    }
-                }
+                    ""
+                };
+                answers.push((short(text), a, format!("{word}{why}")));
             }
-            checks.push(Check {
-                key: e.key.clone(),
-                line: e.line,
-                passed: expected == actual,
-                expected,
-                actual,
-                fix: Fix::Move {
-                    items: wrong,
-                    to: if positive { "not_entailed" } else { "entailed" },
-                },
-            });
+            let to = if positive { "not_entailed" } else { "entailed" };
+            checks.push(yes_no_check(e, positive, answers, to));
         }
         for (i, v) in &classes {
             let e = &c.expect[*i];
             let positive = matches!(e.expect, Expect::Satisfiable(_));
-            let mut expected = Vec::new();
-            let mut actual = Vec::new();
-            let mut wrong = Vec::new();
-            for (n, (k, text)) in v.iter().enumerate() {
+            let mut answers = Vec::new();
+            for (k, text) in v {
                 let atom = r.concepts_mut().atom(*k);
                 let a = r.is_satisfiable(atom);
                 if let Answer::Unknown(l) = a {
@@ -594,32 +604,14 @@ fn evaluate(
                 }
                 let word = answer_word(a, "satisfiable", "unsatisfiable");
                 outcome.satisfiability.insert(text.clone(), word.clone());
-                let ok = a == if positive { Answer::Yes } else { Answer::No };
-                expected.push(short(text));
-                if ok {
-                    actual.push(short(text));
-                } else {
-                    actual.push(format!("{word}: {}", short(text)));
-                    if !matches!(a, Answer::Unknown(_)) {
-                        wrong.push(n);
-                    }
-                }
+                answers.push((short(text), a, word));
             }
-            checks.push(Check {
-                key: e.key.clone(),
-                line: e.line,
-                passed: expected == actual,
-                expected,
-                actual,
-                fix: Fix::Move {
-                    items: wrong,
-                    to: if positive {
-                        "unsatisfiable"
-                    } else {
-                        "satisfiable"
-                    },
-                },
-            });
+            let to = if positive {
+                "unsatisfiable"
+            } else {
+                "satisfiable"
+            };
+            checks.push(yes_no_check(e, positive, answers, to));
         }
     }
 

@@ -240,6 +240,12 @@ fn batch(args: &ReportArgs, kb: &KnowledgeBase, manifest: &Path) -> i32 {
         o
     };
     let run_all = || -> Vec<CaseOutcome> { selected.par_iter().map(|c| one(c)).collect() };
+    if args.jobs > 1024 {
+        return bad(format!(
+            "--jobs {}: at most 1024 threads; give 0 for one per core",
+            args.jobs
+        ));
+    }
     let outcomes = if args.jobs > 0 {
         match rayon::ThreadPoolBuilder::new()
             .num_threads(args.jobs)

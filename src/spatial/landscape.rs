@@ -152,18 +152,46 @@ pub fn exact_degree(x_world: [f64; 3], reference_world: &[[f64; 3]], d: [f64; 3]
     }
 }
 
+/// A vector of `n` copies of `value`, its memory backed by 2 MiB pages where the system
+/// offers them on request (Linux transparent huge pages in `madvise` mode): a landscape's
+/// state runs to tens of megabytes, and faulting it in 4 KiB pages costs more than a tenth
+/// of its propagation time.
+pub(crate) fn big_vec<T: Copy>(n: usize, value: T) -> Vec<T> {
+    let mut v: Vec<T> = Vec::with_capacity(n);
+    #[cfg(target_os = "linux")]
+    {
+        const HUGE: usize = 1 << 21;
+        let bytes = n * std::mem::size_of::<T>();
+        if bytes >= 4 * HUGE {
+            let start = (v.as_ptr() as usize).next_multiple_of(HUGE);
+            let end = (v.as_ptr() as usize + bytes) & !(HUGE - 1);
+            if end > start {
+                // SAFETY: the range lies inside the vector's allocation, which is not yet
+                // touched; the advice changes only how its pages are backed, not its contents.
+                unsafe {
+                    libc::madvise(start as *mut libc::c_void, end - start, libc::MADV_HUGEPAGE);
+                }
+            }
+        }
+    }
+    v.resize(n, value);
+    v
+}
+
 /// Marker for "no origin yet" in the propagation state.
 const NONE: i16 = i16::MIN;
 
 /// A landscape computed by two-pass propagation over a box (Bloch 1999, §4: each voxel keeps
 /// the reference point that gives it the best degree, and takes over a neighbour's point
 /// when that gives a better angle). State: the vector from the origin to the voxel, in voxel
-/// units, as three `i16` arrays (6 bytes per voxel).
+/// units, as three `i16` arrays (6 bytes per cell, plus the padding of the [`CellLayout`]).
 ///
 /// Each raster pass visits the 13 neighbours that precede a voxel (the forward pass) or
-/// follow it (the backward pass). The 12 neighbours in earlier rows are handled a whole row
-/// at a time in branch-free loops the compiler vectorises; the one in the same row is
-/// handled by a sequential sweep along the row.
+/// follow it (the backward pass). A slice is swept wavefront by wavefront (see
+/// [`CellLayout`]): the cells of a wavefront are independent, so each wavefront is one
+/// branch-free loop the compiler vectorises, with all 13 neighbours applied while its cells
+/// stay in vector registers. Cells are named by their slot in the layout
+/// ([`FastLandscape::cell_of`]).
 #[derive(PartialEq)]
 pub struct FastLandscape {
     /// Global index of the box's first voxel.
@@ -173,6 +201,7 @@ pub struct FastLandscape {
     /// Coarsening factor: the propagation runs on cells of factor³ voxels (1 = full resolution).
     pub factor: usize,
     cdims: [usize; 3],
+    layout: CellLayout,
     fine_linear: [[f64; 3]; 3],
     ox: Vec<i16>,
     oy: Vec<i16>,
@@ -185,6 +214,104 @@ pub struct FastLandscape {
 /// (a slice pipeline); smaller ones, such as the landscapes of a `measure` plan, which run
 /// side by side, use one.
 pub const PIPELINE_MIN_CELLS: usize = 1 << 22;
+
+/// Padding rows before the first and after the last wavefront of a [`CellLayout`].
+const PAD_T: usize = 3;
+
+/// A wavefront's cells are processed in whole groups of this many lanes (the widest vector
+/// of f32 in use), so that no loop has a scalar remainder.
+const LANES: usize = 16;
+
+/// The wavefront layout of one slice of `nx × ny` cells, in which the propagation runs.
+///
+/// In a forward raster pass a cell (i, j) needs the final states of (i − 1, j) and of
+/// (i + di, j − 1), di = −1, 0, 1; all of them lie on earlier lines t = i + 2j. So the
+/// cells of one line t (a wavefront) are independent of each other, and a pass can sweep the
+/// wavefronts in order, each as one branch-free loop over its cells, instead of a row sweep
+/// whose cells wait for each other. (The backward pass visits the same lines in reverse.)
+/// Row t of the layout holds the cells of wavefront t by increasing j, with one slot of
+/// padding at each end and three all-padding rows before t = 0 and after the last line, so
+/// that every neighbour of a cell, inside the slice or not, is a slot: the 26 neighbours of
+/// the cells j = a..=b of wavefront t are the contiguous slots j + dj = a + dj..=b + dj of
+/// row t + di + 2dj. Each row has room for its cells rounded up to whole groups of
+/// [`LANES`], read from any of its neighbours' first cells on: the loops run over whole
+/// groups, and the lanes past a wavefront's last cell never take an origin (their key is
+/// set to +∞), so they keep "no origin" and write back what they read, in their own row.
+/// Padding slots hold "no origin" and are never changed.
+#[derive(Clone, Debug, PartialEq)]
+pub struct CellLayout {
+    nx: usize,
+    ny: usize,
+    /// Number of wavefronts, nx + 2(ny − 1).
+    nt: usize,
+    /// The first and last j of each wavefront.
+    lanes: Vec<(usize, usize)>,
+    /// The first slot of row t + PAD_T.
+    off: Vec<usize>,
+    /// The j of row t + PAD_T's first slot.
+    first_j: Vec<i64>,
+    /// Slots per slice.
+    size: usize,
+}
+
+impl CellLayout {
+    /// The layout of slices of `nx × ny` cells (both at least 1).
+    pub fn new(nx: usize, ny: usize) -> Self {
+        let nt = nx + 2 * (ny - 1);
+        let mut lanes = Vec::with_capacity(nt);
+        let mut off = Vec::with_capacity(nt + 2 * PAD_T);
+        let mut first_j = Vec::with_capacity(nt + 2 * PAD_T);
+        let mut size = 0;
+        for r in 0..nt + 2 * PAD_T {
+            let t = r as i64 - PAD_T as i64;
+            let (a, cap) = if t < 0 || t >= nt as i64 {
+                // Read at j = −1..=ny, up to LANES slots from there.
+                (-1, ny + 2 + 2 * LANES)
+            } else {
+                // i = t − 2j must lie in 0..nx and j in 0..ny.
+                let lo = ((t - nx as i64 + 1).max(0) + 1) / 2;
+                let hi = (t / 2).min(ny as i64 - 1);
+                lanes.push((lo as usize, hi as usize));
+                let n = (hi - lo + 1) as usize;
+                // The padded lane count of a wavefront differs from a neighbouring one's by
+                // at most 2 cells and starts at most 4 slots into its row (see `lanes`).
+                (lo - 1, (n + 2).next_multiple_of(LANES) + 8)
+            };
+            off.push(size);
+            first_j.push(a);
+            size += cap;
+        }
+        CellLayout {
+            nx,
+            ny,
+            nt,
+            lanes,
+            off,
+            first_j,
+            size,
+        }
+    }
+
+    /// Slots per slice (cells, padding and lane room).
+    pub fn slots_per_slice(&self) -> usize {
+        self.size
+    }
+
+    /// The slot of cell (i, j, k), k counting slices.
+    #[inline(always)]
+    pub fn cell(&self, i: usize, j: usize, k: usize) -> usize {
+        debug_assert!(i < self.nx && j < self.ny);
+        self.size * k + self.slot((i + 2 * j) as i64, j as i64)
+    }
+
+    /// The slot of cell j of wavefront t (t may lie up to PAD_T outside 0..nt, j one
+    /// outside the wavefront's cells).
+    #[inline(always)]
+    fn slot(&self, t: i64, j: i64) -> usize {
+        let r = (t + PAD_T as i64) as usize;
+        self.off[r] + (j - self.first_j[r]) as usize
+    }
+}
 
 /// The propagation state of one slice as f32 vectors (NaN = no origin yet).
 struct SliceBuf {
@@ -211,8 +338,8 @@ impl SliceBuf {
     }
 }
 
-/// Raw access to a [`SliceBuf`], so that one thread can write a row of a slice while the
-/// other reads rows of it that are finished (never the same row).
+/// Raw access to a [`SliceBuf`], so that one thread can write a wavefront of a slice while
+/// the other reads wavefronts of it that are finished (never the same one).
 #[derive(Clone, Copy)]
 struct SlicePtrs {
     x: *mut f32,
@@ -249,7 +376,7 @@ impl SlicePtrs {
     }
 }
 
-/// Loads a plane of i16 origins into f32 state.
+/// Loads a slice of i16 origins into f32 state.
 #[inline(always)]
 fn load_plane(dst: RowMut<'_>, ox: &[i16], oy: &[i16], oz: &[i16]) {
     let n = ox.len();
@@ -266,7 +393,7 @@ fn load_plane(dst: RowMut<'_>, ox: &[i16], oy: &[i16], oz: &[i16]) {
     }
 }
 
-/// Stores a plane of f32 state as i16 origins.
+/// Stores a slice of f32 state as i16 origins.
 #[inline(always)]
 fn store_plane(src: Row<'_>, ox: &mut [i16], oy: &mut [i16], oz: &mut [i16]) {
     let n = ox.len();
@@ -317,72 +444,103 @@ fn key_parts<const DIAG: bool, const AX: usize>(
     (cc * cc.abs(), w0 * w0 + w1 * w1 + w2 * w2)
 }
 
-/// Offers every voxel of the target row `dst` the origins of the source row `src`, shifted
-/// by di = −1, 0, 1 along the row. `e` = (−dj, −dk) of the neighbour, i.e. here − neighbour.
-#[allow(clippy::too_many_arguments)]
+/// Number of neighbours offered to each cell in one pass: 9 in the previous slice, 3 in
+/// the previous row and 1 in the same row (Bloch 1999, §4: the half of the 26-neighbourhood
+/// that precedes a cell in the raster order).
+const NEIGHBOURS: usize = 13;
+
+/// Offers each cell of the wavefront `dst` (n cells) its 13 neighbours in turn: neighbour q
+/// of the cell at lane t is lane t of `srcs[q]`, and `es[q]` = cell − neighbour in cells.
+/// A cell takes a neighbour's origin when the angle key cos β·|cos β| of the vector from
+/// that origin is larger; the key is kept as a fraction num/den and compared by
+/// cross-multiplication (no division, no branch). A neighbour without an origin (NaN) is
+/// never taken: its key is NaN and every comparison with NaN is false. The cells are
+/// processed in whole groups of [`LANES`], each group held in vector registers through all
+/// 13 neighbours; the lanes past the last cell get the key +∞, so nothing replaces their
+/// "no origin" and they write back what they read.
 #[inline(always)]
-fn relax_row<const DIAG: bool, const AX: usize>(
+fn relax_wavefront<const DIAG: bool, const AX: usize>(
     l: &[[f32; 3]; 3],
     d: &[f32; 3],
-    src: Row<'_>,
-    e: [f32; 2],
+    srcs: &[Row<'_>; NEIGHBOURS],
+    es: &[[f32; 3]; NEIGHBOURS],
     dst: &mut RowMut<'_>,
-    num: &mut [f32],
-    den: &mut [f32],
-    nx: usize,
+    n: usize,
 ) {
-    for di in -1i64..=1 {
-        let (i0, i1) = (
-            if di < 0 { 1 } else { 0 },
-            if di > 0 { nx.saturating_sub(1) } else { nx },
-        );
-        if i1 <= i0 {
-            continue;
+    for g in 0..n.div_ceil(LANES) {
+        let r = g * LANES..(g + 1) * LANES;
+        let rx: &mut [f32; LANES] = (&mut dst.0[r.clone()]).try_into().unwrap();
+        let ry: &mut [f32; LANES] = (&mut dst.1[r.clone()]).try_into().unwrap();
+        let rz: &mut [f32; LANES] = (&mut dst.2[r.clone()]).try_into().unwrap();
+        let (mut x, mut y, mut z) = (*rx, *ry, *rz);
+        // Keys of the current state: −2 for no origin (any origin is better), 1/0 = +∞ at
+        // an origin itself (nothing is better).
+        let mut num = [0.0f32; LANES];
+        let mut den = [0.0f32; LANES];
+        for t in 0..LANES {
+            let (kn, n2) = key_parts::<DIAG, AX>(l, d, x[t], y[t], z[t]);
+            let none = x[t].is_nan();
+            let origin = n2 == 0.0;
+            let past = g * LANES + t >= n;
+            num[t] = if past {
+                f32::INFINITY
+            } else if none {
+                -2.0
+            } else if origin {
+                1.0
+            } else {
+                kn
+            };
+            den[t] = if past || none {
+                1.0
+            } else if origin {
+                0.0
+            } else {
+                n2
+            };
         }
-        let n = i1 - i0;
-        let s0 = (i0 as i64 + di) as usize;
-        let (sx, sy, sz) = (&src.0[s0..s0 + n], &src.1[s0..s0 + n], &src.2[s0..s0 + n]);
-        let ex = -di as f32;
-        let kn_ = &mut num[i0..i0 + n];
-        let kd_ = &mut den[i0..i0 + n];
-        let rx = &mut dst.0[i0..i0 + n];
-        let ry = &mut dst.1[i0..i0 + n];
-        let rz = &mut dst.2[i0..i0 + n];
-        for t in 0..n {
-            let (ca, cb, cc) = (sx[t] + ex, sy[t] + e[0], sz[t] + e[1]);
-            let (kn, n2) = key_parts::<DIAG, AX>(l, d, ca, cb, cc);
-            // NaN (no origin) compares false.
-            let better = kn * kd_[t] > kn_[t] * n2;
-            kn_[t] = if better { kn } else { kn_[t] };
-            kd_[t] = if better { n2 } else { kd_[t] };
-            rx[t] = if better { ca } else { rx[t] };
-            ry[t] = if better { cb } else { ry[t] };
-            rz[t] = if better { cc } else { rz[t] };
+        for (src, e) in srcs.iter().zip(es) {
+            let sx: [f32; LANES] = src.0[r.clone()].try_into().unwrap();
+            let sy: [f32; LANES] = src.1[r.clone()].try_into().unwrap();
+            let sz: [f32; LANES] = src.2[r.clone()].try_into().unwrap();
+            for t in 0..LANES {
+                let (ca, cb, cc) = (sx[t] + e[0], sy[t] + e[1], sz[t] + e[2]);
+                let (kn, n2) = key_parts::<DIAG, AX>(l, d, ca, cb, cc);
+                let better = kn * den[t] > num[t] * n2;
+                num[t] = if better { kn } else { num[t] };
+                den[t] = if better { n2 } else { den[t] };
+                x[t] = if better { ca } else { x[t] };
+                y[t] = if better { cb } else { y[t] };
+                z[t] = if better { cc } else { z[t] };
+            }
         }
+        (*rx, *ry, *rz) = (x, y, z);
     }
 }
 
 /// One raster pass over the whole box, shared by its worker threads: slice `ks[t]` is
 /// swept by worker t mod `step`, into buffer t mod `bufs.len()`, reading the previous
-/// slice's buffer. With two workers, row r of a slice waits until the previous slice has
-/// finished rows up to r + 1 (`progress`).
-struct PassJob {
+/// slice's buffer. With two workers, wavefront s of a slice waits until the previous slice
+/// has finished its wavefronts up to s + 3 (`progress`), the last it reads.
+struct PassJob<'a> {
     ox: *mut i16,
     oy: *mut i16,
     oz: *mut i16,
-    cdims: [usize; 3],
+    skew: &'a CellLayout,
     linear: [[f32; 3]; 3],
     direction: [f32; 3],
     forward: bool,
     ks: Vec<usize>,
     bufs: Vec<SlicePtrs>,
+    /// An all-NaN slice: the "previous slice" of a pass's first one.
+    none: SlicePtrs,
     progress: Vec<AtomicUsize>,
     abort: AtomicBool,
 }
 
-// SAFETY: the workers touch disjoint planes of the origin arrays and disjoint rows of the
-// slice buffers, ordered by the release/acquire `progress` counters (see `run_slices`).
-unsafe impl Sync for PassJob {}
+// SAFETY: the workers touch disjoint slices of the origin arrays and disjoint wavefronts of
+// the slice buffers, ordered by the release/acquire `progress` counters (see `run_slices`).
+unsafe impl Sync for PassJob<'_> {}
 
 /// Sets the abort flag when a worker unwinds, so that the other stops waiting for it.
 struct AbortOnPanic<'a>(&'a AtomicBool);
@@ -395,7 +553,7 @@ impl Drop for AbortOnPanic<'_> {
     }
 }
 
-impl PassJob {
+impl PassJob<'_> {
     /// Runs the slices t = start, start + step, ...
     fn run(&self, start: usize, step: usize) {
         let _guard = AbortOnPanic(&self.abort);
@@ -456,7 +614,7 @@ impl PassJob {
         self.run_dispatch(start, step);
     }
 
-    /// Waits until slice position `t` has finished `need` rows.
+    /// Waits until slice position `t` has finished `need` wavefronts.
     #[inline(always)]
     fn wait_rows(&self, t: usize, need: usize) {
         let mut spins = 0u32;
@@ -473,145 +631,91 @@ impl PassJob {
         }
     }
 
-    /// Sweeps the slices of one worker. The state of the slice being swept and of the slice
-    /// before it is held as f32 (NaN = no origin yet); the angle key cos β·|cos β| is kept
-    /// as a fraction num/den and compared by cross-multiplication, so the inner loops have
-    /// no division and no branch.
+    /// Sweeps the slices of one worker, wavefront by wavefront (see [`CellLayout`]). The state of
+    /// the slice being swept and of the slice before it is held as f32 (NaN = no origin
+    /// yet). Each cell is offered its 13 neighbours in the order of the raster formulation:
+    /// the previous slice's (dj outer, di inner), the previous row's, then the previous cell
+    /// of its row.
     #[inline(always)]
     fn run_slices<const DIAG: bool, const AX: usize>(&self, start: usize, step: usize) {
-        let [nx, ny, _] = self.cdims;
-        let plane = nx * ny;
+        let sk = self.skew;
+        let size = sk.size;
+        let nt = sk.nt;
         let l = self.linear;
         let d = self.direction;
         let sgn: i64 = if self.forward { 1 } else { -1 };
         let sync = step > 1;
         let nb = self.bufs.len();
-        let mut num = vec![0.0f32; nx];
-        let mut den = vec![0.0f32; nx];
-        let js: Vec<usize> = if self.forward {
-            (0..ny).collect()
-        } else {
-            (0..ny).rev().collect()
-        };
+        // Neighbour q's offset (di, dj, dk) from a cell; e = −offset.
+        let mut offs = [(0i64, 0i64, 0i64); NEIGHBOURS];
+        let mut q = 0;
+        for dj in -1i64..=1 {
+            for di in -1i64..=1 {
+                offs[q] = (di, dj, -sgn);
+                q += 1;
+            }
+        }
+        for di in -1i64..=1 {
+            offs[q] = (di, -sgn, 0);
+            q += 1;
+        }
+        offs[q] = (-sgn, 0, 0);
+        let es = offs.map(|(di, dj, dk)| [-di as f32, -dj as f32, -dk as f32]);
         let mut t = start;
         while t < self.ks.len() {
             let k = self.ks[t];
-            let base = plane * k;
+            let base = size * k;
             let cur = self.bufs[t % nb];
-            let prev = self.bufs[(t + nb - 1) % nb];
-            let have_prev = t > 0;
-            // SAFETY: plane k belongs to this worker alone in this pass; the buffer of
+            // The first slice of a pass has no previous one: an all-NaN buffer stands in.
+            let prev = if t > 0 {
+                self.bufs[(t + nb - 1) % nb]
+            } else {
+                self.none
+            };
+            // SAFETY: slice k belongs to this worker alone in this pass; the buffer of
             // position t is written by this worker only, and read by the next position's
-            // worker row by row after `progress` says the row is finished. The buffer is
-            // reused (position t + nb) only after that reader is done (see `pass`).
+            // worker wavefront by wavefront after `progress` says it is finished. The
+            // buffer is reused (position t + nb) only after that reader is done (see `pass`).
             unsafe {
                 load_plane(
-                    cur.row_mut(0, plane),
-                    std::slice::from_raw_parts(self.ox.add(base), plane),
-                    std::slice::from_raw_parts(self.oy.add(base), plane),
-                    std::slice::from_raw_parts(self.oz.add(base), plane),
+                    cur.row_mut(0, size),
+                    std::slice::from_raw_parts(self.ox.add(base), size),
+                    std::slice::from_raw_parts(self.oy.add(base), size),
+                    std::slice::from_raw_parts(self.oz.add(base), size),
                 );
             }
-            for (r, &j) in js.iter().enumerate() {
-                if sync && have_prev {
-                    self.wait_rows(t - 1, (r + 2).min(ny));
+            for s in 0..nt {
+                if sync && t > 0 {
+                    self.wait_rows(t - 1, (s + 1 + PAD_T).min(nt));
                 }
-                let row = nx * j;
-                // SAFETY: row j of this worker's buffer; no other view of it is alive.
-                let mut dst = unsafe { cur.row_mut(row, nx) };
-                // Keys of the current state.
-                {
-                    let (cx, cy, cz) = (&dst.0[..nx], &dst.1[..nx], &dst.2[..nx]);
-                    let (num, den) = (&mut num[..nx], &mut den[..nx]);
-                    for i in 0..nx {
-                        let (kn, n2) = key_parts::<DIAG, AX>(&l, &d, cx[i], cy[i], cz[i]);
-                        let none = cx[i].is_nan();
-                        let origin = n2 == 0.0;
-                        num[i] = if none {
-                            -2.0
-                        } else if origin {
-                            1.0
-                        } else {
-                            kn
-                        };
-                        den[i] = if none {
-                            1.0
-                        } else if origin {
-                            0.0
-                        } else {
-                            n2
-                        };
-                    }
-                }
-                // Neighbours in earlier rows: three in the previous slice's rows j−1..j+1
-                // (dk = −s) and one row j−s of this slice, each with di = −1, 0, 1.
-                for dj in -1i64..=1 {
-                    let jj = j as i64 + dj;
-                    if have_prev && jj >= 0 && jj < ny as i64 {
-                        // SAFETY: a finished row of the previous slice (waited for above).
-                        let src = unsafe { prev.row(nx * jj as usize, nx) };
-                        relax_row::<DIAG, AX>(
-                            &l,
-                            &d,
-                            src,
-                            [-dj as f32, sgn as f32],
-                            &mut dst,
-                            &mut num,
-                            &mut den,
-                            nx,
-                        );
-                    }
-                }
-                let jj = j as i64 - sgn;
-                if jj >= 0 && jj < ny as i64 {
-                    // SAFETY: another row (j − s ≠ j) of this worker's own buffer.
-                    let src = unsafe { cur.row(nx * jj as usize, nx) };
-                    relax_row::<DIAG, AX>(
-                        &l,
-                        &d,
-                        src,
-                        [sgn as f32, 0.0],
-                        &mut dst,
-                        &mut num,
-                        &mut den,
-                        nx,
-                    );
-                }
-                // The neighbour in the same row, swept in pass order.
-                let step_i = sgn as f32;
-                let (cx, cy, cz) = (&mut *dst.0, &mut *dst.1, &mut *dst.2);
-                let (num, den) = (&mut num[..nx], &mut den[..nx]);
-                let mut sweep = |i: usize, p: usize| {
-                    let (ca, cb, cc) = (cx[p] + step_i, cy[p], cz[p]);
-                    let (kn, n2) = key_parts::<DIAG, AX>(&l, &d, ca, cb, cc);
-                    if kn * den[i] > num[i] * n2 {
-                        num[i] = kn;
-                        den[i] = n2;
-                        cx[i] = ca;
-                        cy[i] = cb;
-                        cz[i] = cc;
-                    }
-                };
-                if self.forward {
-                    for i in 1..nx {
-                        sweep(i, i - 1);
-                    }
-                } else {
-                    for i in (0..nx.saturating_sub(1)).rev() {
-                        sweep(i, i + 1);
-                    }
-                }
+                let w = if self.forward { s } else { nt - 1 - s };
+                let (jl, jh) = sk.lanes[w];
+                let n = jh - jl + 1;
+                let m = n.next_multiple_of(LANES);
+                let (w, jl) = (w as i64, jl as i64);
+                // SAFETY: the previous slice's rows were waited for above; this slice's
+                // rows w + di − 2s and w − s are earlier wavefronts of this worker's own
+                // buffer, never row w; each read stays inside its row (see `CellLayout`).
+                let srcs: [Row<'_>; NEIGHBOURS] = std::array::from_fn(|q| {
+                    let (di, dj, dk) = offs[q];
+                    let buf = if dk != 0 { prev } else { cur };
+                    unsafe { buf.row(sk.slot(w + di + 2 * dj, jl + dj), m) }
+                });
+                // SAFETY: row w of this worker's buffer (cells, end padding and room for
+                // whole lane groups, see `CellLayout`); no other view of it is alive.
+                let mut dst = unsafe { cur.row_mut(sk.slot(w, jl), m) };
+                relax_wavefront::<DIAG, AX>(&l, &d, &srcs, &es, &mut dst, n);
                 if sync {
-                    self.progress[t].store(r + 1, Ordering::Release);
+                    self.progress[t].store(s + 1, Ordering::Release);
                 }
             }
             // SAFETY: as for the load; readers of this buffer only read.
             unsafe {
                 store_plane(
-                    cur.row(0, plane),
-                    std::slice::from_raw_parts_mut(self.ox.add(base), plane),
-                    std::slice::from_raw_parts_mut(self.oy.add(base), plane),
-                    std::slice::from_raw_parts_mut(self.oz.add(base), plane),
+                    cur.row(0, size),
+                    std::slice::from_raw_parts_mut(self.ox.add(base), size),
+                    std::slice::from_raw_parts_mut(self.oy.add(base), size),
+                    std::slice::from_raw_parts_mut(self.oz.add(base), size),
                 );
             }
             t += step;
@@ -661,17 +765,20 @@ impl FastLandscape {
         let f = factor.max(1);
         let cdims = dims.map(|n| n.div_ceil(f));
         let [nx, ny, nz] = cdims;
-        let n = nx * ny * nz;
+        let skew = CellLayout::new(nx, ny);
+        // During the passes the state is in the wavefront layout, slice after slice.
+        let n = skew.size * nz;
         let fine_linear = affine.linear();
         let mut me = FastLandscape {
             lo,
             dims,
             factor: f,
             cdims,
+            layout: skew.clone(),
             fine_linear,
-            ox: vec![NONE; n],
-            oy: vec![0; n],
-            oz: vec![0; n],
+            ox: big_vec(n, NONE),
+            oy: big_vec(n, 0),
+            oz: big_vec(n, 0),
             linear: fine_linear.map(|r| r.map(|v| (v * f as f64) as f32)),
             direction: d.map(|v| v as f32),
         };
@@ -696,29 +803,29 @@ impl FastLandscape {
                     continue;
                 }
                 let (cj, ck) = (j as usize / f, k as usize / f);
-                let base = nx * (cj + ny * ck);
+                let base = skew.size * ck;
                 for (ri, &b) in row.iter().enumerate() {
                     let i = reference.lo[0] + ri as i64 - lo[0];
                     if b && i >= 0 && (i as usize) < dims[0] {
-                        me.ox[base + cell_x[i as usize]] = 0;
+                        let ci = cell_x[i as usize];
+                        me.ox[base + skew.slot((ci + 2 * cj) as i64, cj as i64)] = 0;
                         first_k = first_k.min(ck);
                     }
                 }
             }
         }
-        me.pass(true, first_k, max_threads);
-        me.pass(false, 0, max_threads);
+        me.pass(&skew, true, first_k, max_threads);
+        me.pass(&skew, false, 0, max_threads);
         me
     }
 
     /// One raster pass; the forward pass starts at slice `first_k` (every earlier slice holds
     /// no reference cell and can receive no origin in that pass, so it is left as it is).
     /// Large boxes run on two threads: worker 0 sweeps the even slices, worker 1 the odd
-    /// ones, a row behind; each slice sees exactly the state it would see in one thread,
-    /// so the result does not depend on the threading.
-    fn pass(&mut self, forward: bool, first_k: usize, max_threads: usize) {
+    /// ones, a few wavefronts behind; each slice sees exactly the state it would see in one
+    /// thread, so the result does not depend on the threading.
+    fn pass(&mut self, skew: &CellLayout, forward: bool, first_k: usize, max_threads: usize) {
         let [nx, ny, nz] = self.cdims;
-        let plane = nx * ny;
         let ks: Vec<usize> = if forward {
             (first_k.min(nz)..nz).collect()
         } else {
@@ -732,17 +839,19 @@ impl FastLandscape {
         // the same worker, after it has finished t + 2, which waited for all of t + 1, the
         // only reader of t's buffer.
         let mut bufs: Vec<SliceBuf> = (0..if two { 4 } else { 2 })
-            .map(|_| SliceBuf::new(plane))
+            .map(|_| SliceBuf::new(skew.size))
             .collect();
+        let mut none = SliceBuf::new(skew.size);
         let job = PassJob {
             ox: self.ox.as_mut_ptr(),
             oy: self.oy.as_mut_ptr(),
             oz: self.oz.as_mut_ptr(),
-            cdims: self.cdims,
+            skew,
             linear: self.linear,
             direction: self.direction,
             forward,
             bufs: bufs.iter_mut().map(SliceBuf::ptrs).collect(),
+            none: none.ptrs(),
             progress: if two {
                 ks.iter().map(|_| AtomicUsize::new(0)).collect()
             } else {
@@ -761,14 +870,30 @@ impl FastLandscape {
         }
         drop(job);
         drop(bufs);
+        drop(none);
     }
 
-    /// The propagation cell holding a global voxel, if inside the box.
+    /// The state slot of the propagation cell holding a global voxel, if inside the box.
     pub fn cell_of(&self, p: [i64; 3]) -> Option<usize> {
-        cell_index(p, self.lo, self.dims, self.factor)
+        let f = self.factor;
+        let mut c = [0usize; 3];
+        for a in 0..3 {
+            let q = p[a] - self.lo[a];
+            if q < 0 || q as usize >= self.dims[a] {
+                return None;
+            }
+            c[a] = q as usize / f;
+        }
+        Some(self.layout.cell(c[0], c[1], c[2]))
     }
 
-    /// The degree of a cell, read at its centre (for factor 1, the voxel's own degree).
+    /// The layout of the state: cells are named by their slot in it.
+    pub fn layout(&self) -> &CellLayout {
+        &self.layout
+    }
+
+    /// The degree of a cell (its slot, see [`FastLandscape::cell_of`]), read at its centre
+    /// (for factor 1, the voxel's own degree).
     pub fn cell_degree(&self, c: usize) -> f64 {
         let d = self.direction.map(|x| x as f64);
         cell_degree_of(
@@ -781,8 +906,8 @@ impl FastLandscape {
         )
     }
 
-    /// [`FastLandscape::cell_degree`] of many cells at once, written to `out` in the order
-    /// of `cells` (each given with a weight that is passed through). The same arithmetic,
+    /// [`FastLandscape::cell_degree`] of many cells (slots) at once, written to `out` in the
+    /// order of `cells` (each given with a weight that is passed through). The same arithmetic,
     /// laid out so that the compiler can run it on vector lanes.
     pub fn cell_degrees(&self, cells: &[(usize, u32)], out: &mut Vec<(f64, u32)>) {
         let n = cells.len();
@@ -842,9 +967,8 @@ impl FastLandscape {
             return 0.0;
         }
         let f = self.factor;
-        let [cx, cy, _] = self.cdims;
         let c = [i / f, j / f, k / f];
-        let l = c[0] + cx * (c[1] + cy * c[2]);
+        let l = self.layout.cell(c[0], c[1], c[2]);
         if self.ox[l] == NONE {
             return 0.0;
         }
@@ -896,23 +1020,6 @@ fn cell_degree_of(x: i16, y: i16, z: i16, f: f64, l: &[[f64; 3]; 3], d: [f64; 3]
 /// Number of propagation cells of a box of `dims` voxels at coarsening `factor`.
 pub fn cell_count(dims: [usize; 3], factor: usize) -> usize {
     dims.iter().map(|n| n.div_ceil(factor.max(1))).product()
-}
-
-/// The propagation cell (linear index) holding global voxel `p` in the box `lo .. lo+dims`
-/// at coarsening `factor`, if inside the box.
-pub fn cell_index(p: [i64; 3], lo: [i64; 3], dims: [usize; 3], factor: usize) -> Option<usize> {
-    let f = factor.max(1);
-    let mut c = [0usize; 3];
-    for a in 0..3 {
-        let q = p[a] - lo[a];
-        if q < 0 || q as usize >= dims[a] {
-            return None;
-        }
-        c[a] = q as usize / f;
-    }
-    let cx = dims[0].div_ceil(f);
-    let cy = dims[1].div_ceil(f);
-    Some(c[0] + cx * (c[1] + cy * c[2]))
 }
 
 /// How a target's landscape values are combined into one degree (Dubois & Prade fuzzy

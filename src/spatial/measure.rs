@@ -4,7 +4,9 @@ use super::SpatialError;
 use super::affine::round_to;
 use super::config::MeasureConfig;
 use super::edt::{edt_squared, edt_squared_into};
-use super::landscape::{Direction, FastLandscape, LandscapeMode, cell_count, exact_degree};
+use super::landscape::{
+    CellLayout, Direction, FastLandscape, LandscapeMode, cell_count, exact_degree,
+};
 use super::mask::{Adjacency, Mask};
 use super::nifti_io::LabelMap;
 use super::rcc8::{Rcc8, relate_counted};
@@ -429,12 +431,13 @@ pub fn measure(
             let factor = coarsening(dims, dir_cfg.max_landscape_cells);
             let cells: Vec<Vec<(usize, u32)>> = if dir_cfg.landscape == LandscapeMode::Fast {
                 let mut count = vec![0u32; cell_count(dims, factor)];
+                let layout = CellLayout::new(dims[0].div_ceil(factor), dims[1].div_ceil(factor));
                 targets
                     .iter()
                     .map(|&a| {
                         let mut touched = Vec::new();
                         // Cell coordinate of each box position along each axis (no division
-                        // per voxel); the cell is that of `landscape::cell_index`.
+                        // per voxel), as `FastLandscape::cell_of` computes it.
                         let tab: [Vec<usize>; 3] =
                             std::array::from_fn(|ax| (0..dims[ax]).map(|q| q / factor).collect());
                         let (cx, cy) = (dims[0].div_ceil(factor), dims[1].div_ceil(factor));
@@ -446,15 +449,16 @@ pub fn measure(
                             if let (Some(i), Some(j), Some(k)) = (pos(p, 0), pos(p, 1), pos(p, 2)) {
                                 let c = i + cx * (j + cy * k);
                                 if count[c] == 0 {
-                                    touched.push(c);
+                                    touched.push((c, layout.cell(i, j, k)));
                                 }
                                 count[c] += 1;
                             }
                         });
+                        // Raster order of the cells, so that sums are taken in a fixed order.
                         touched.sort_unstable();
                         touched
                             .into_iter()
-                            .map(|c| (c, std::mem::take(&mut count[c])))
+                            .map(|(c, slot)| (slot, std::mem::take(&mut count[c])))
                             .collect()
                     })
                     .collect()

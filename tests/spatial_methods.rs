@@ -672,3 +672,71 @@ proptest! {
         prop_assert_eq!(m.surface(), naive);
     }
 }
+
+#[test]
+fn diameter_and_box_from_row_ends_equal_the_whole_surface() {
+    // Convexity (from the definitions, no outside value needed): along a voxel row the
+    // squared distance to a point is a strictly convex function and a projection a linear
+    // one, so the pairs and extremes that decide the diameter and the bounding box lie at
+    // row ends. Region metrics read only the row ends; they must equal the whole-surface
+    // values, on a diagonal and an oblique grid, below and above the exact-pairs threshold.
+    use wherefore::spatial::region::{
+        DIAMETER_EXACT_POINTS, RegionSpec, diameter, region_from_mask,
+    };
+    use wherefore::spatial::table::Role;
+    let grids = [
+        Affine::diagonal([0.8, 1.0, 2.5], [3.0, -2.0, 1.0]),
+        oblique_affine([0.9, 1.1, 1.3], 0.35, [0.0; 3], true),
+    ];
+    let mut seen_large = false;
+    for (g, aff) in grids.iter().enumerate() {
+        for (radius, seed) in [(4i64, 1u64), (9, 2), (17, 3)] {
+            // A lumpy blob: a ball with pseudo-random voxels removed near its border.
+            let mut v = Vec::new();
+            let mut s = seed.wrapping_mul(0x9e37_79b9_7f4a_7c15) | 1;
+            for k in -radius..=radius {
+                for j in -radius..=radius {
+                    for i in -radius..=radius {
+                        s ^= s << 13;
+                        s ^= s >> 7;
+                        s ^= s << 17;
+                        let r2 = i * i + j * j + k * k;
+                        if r2 <= radius * radius && (r2 < (radius - 2).pow(2) || s % 3 != 0) {
+                            v.push([i + 40, j + 40, k + 40]);
+                        }
+                    }
+                }
+            }
+            let mask = Mask::from_voxels(&v);
+            let world: Vec<[f64; 3]> = mask
+                .surface()
+                .iter()
+                .map(|p| aff.apply([p[0] as f64, p[1] as f64, p[2] as f64]))
+                .collect();
+            seen_large |= world.len() > DIAMETER_EXACT_POINTS;
+            let spec = RegionSpec {
+                id: "x".into(),
+                class: "http://example.org/x#X".into(),
+                role: Role::Anatomy,
+                map_index: 0,
+                value: 1,
+            };
+            let r = region_from_mask(&spec, "m.nii", mask, aff);
+            assert_eq!(
+                r.largest_diameter_mm.to_bits(),
+                diameter(&world).to_bits(),
+                "grid {g}, radius {radius}"
+            );
+            for a in 0..3 {
+                let lo = world.iter().map(|w| w[a]).fold(f64::INFINITY, f64::min);
+                let hi = world.iter().map(|w| w[a]).fold(f64::NEG_INFINITY, f64::max);
+                assert_eq!(
+                    (r.bbox_mm[0][a], r.bbox_mm[1][a]),
+                    (lo, hi),
+                    "grid {g} axis {a}"
+                );
+            }
+        }
+    }
+    assert!(seen_large, "one blob must take the many-points branch");
+}

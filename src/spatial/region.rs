@@ -58,22 +58,24 @@ fn code_stats(map: &LabelMap) -> CodeStats {
         hi: vec![[0; 3]; n],
     };
     let [nx, ny, nz] = map.shape;
-    let mut l = 0;
-    for k in 0..nz {
-        for j in 0..ny {
-            for i in 0..nx {
-                let c = map.codes[l] as usize;
-                l += 1;
-                s.count[c] += 1;
-                let lo = &mut s.lo[c];
-                lo[0] = lo[0].min(i);
-                lo[1] = lo[1].min(j);
-                lo[2] = lo[2].min(k);
-                let hi = &mut s.hi[c];
-                hi[0] = hi[0].max(i);
-                hi[1] = hi[1].max(j);
-                hi[2] = hi[2].max(k);
+    // Runs of one code along a row: one update per run instead of one per voxel.
+    for (r, row) in map.codes.chunks_exact(nx).enumerate() {
+        let (j, k) = (r % ny, r / ny);
+        debug_assert!(k < nz);
+        let mut i = 0;
+        while i < nx {
+            let c = row[i];
+            let mut e = i + 1;
+            while e < nx && row[e] == c {
+                e += 1;
             }
+            let c = c as usize;
+            s.count[c] += e - i;
+            let lo = &mut s.lo[c];
+            *lo = [lo[0].min(i), lo[1].min(j), lo[2].min(k)];
+            let hi = &mut s.hi[c];
+            *hi = [hi[0].max(e - 1), hi[1].max(j), hi[2].max(k)];
+            i = e;
         }
     }
     s
@@ -154,12 +156,23 @@ pub fn region_from_mask(spec: &RegionSpec, map_name: &str, mask: Mask, affine: &
     }
     let n = voxels.max(1) as f64;
     let centroid_mm = affine.apply([sum[0] / n, sum[1] / n, sum[2] / n]);
-    let world: Vec<[f64; 3]> = surface
-        .iter()
-        .map(|p| affine.apply([p[0] as f64, p[1] as f64, p[2] as f64]))
-        .collect();
+    // The first and last surface voxel of each row (surface voxels come in raster order):
+    // a linear function along a row, such as a world coordinate or a projection, and the
+    // squared distance to a point, a convex one, reach their maxima at a row's ends. So the
+    // bounding box and the diameter read these ends only, with the same values.
+    let ends: Vec<[f64; 3]> = {
+        let mut ends = Vec::new();
+        for (q, p) in surface.iter().enumerate() {
+            let row_start = q == 0 || surface[q - 1][1..] != p[1..];
+            let row_end = q + 1 == surface.len() || surface[q + 1][1..] != p[1..];
+            if row_start || row_end {
+                ends.push(affine.apply([p[0] as f64, p[1] as f64, p[2] as f64]));
+            }
+        }
+        ends
+    };
     let mut bbox_mm = [[f64::INFINITY; 3], [f64::NEG_INFINITY; 3]];
-    for w in &world {
+    for w in &ends {
         for a in 0..3 {
             bbox_mm[0][a] = bbox_mm[0][a].min(w[a]);
             bbox_mm[1][a] = bbox_mm[1][a].max(w[a]);
@@ -173,7 +186,7 @@ pub fn region_from_mask(spec: &RegionSpec, map_name: &str, mask: Mask, affine: &
         map_name: map_name.to_string(),
         value: spec.value,
         volume_ml: voxels as f64 * affine.det3().abs() / 1000.0,
-        largest_diameter_mm: diameter(&world),
+        largest_diameter_mm: diameter_of_row_ends(&ends, surface.len()),
         mask,
         extent,
         surface,
@@ -185,6 +198,33 @@ pub fn region_from_mask(spec: &RegionSpec, map_name: &str, mask: Mask, affine: &
     }
 }
 
+/// [`diameter`] of a surface given by its row ends (`ends`, in raster order) and its number
+/// of voxels: the method is chosen by the voxel count, as [`diameter`] would choose it for
+/// the whole surface, and gives the same value. The largest distance is reached by a pair
+/// of row ends (|p − b|² is strictly convex along a row), and per direction the first point
+/// of largest projection in raster order is a row end.
+pub fn diameter_of_row_ends(ends: &[[f64; 3]], surface_voxels: usize) -> f64 {
+    if surface_voxels <= DIAMETER_EXACT_POINTS {
+        pairs_max(ends)
+    } else {
+        extreme_pairs_max(ends)
+    }
+}
+
+/// The largest distance over all pairs of points.
+fn pairs_max(pts: &[[f64; 3]]) -> f64 {
+    let dist2 = |a: &[f64; 3], b: &[f64; 3]| {
+        (a[0] - b[0]).powi(2) + (a[1] - b[1]).powi(2) + (a[2] - b[2]).powi(2)
+    };
+    let mut best = 0.0f64;
+    for (i, a) in pts.iter().enumerate() {
+        for b in &pts[i + 1..] {
+            best = best.max(dist2(a, b));
+        }
+    }
+    best.sqrt()
+}
+
 /// Number of points up to which the diameter is computed over all pairs.
 pub const DIAMETER_EXACT_POINTS: usize = 4000;
 
@@ -194,21 +234,15 @@ pub const DIAMETER_EXACT_POINTS: usize = 4000;
 /// of that direction set), i.e. within 0.31 %.
 #[allow(clippy::needless_range_loop)] // lanes indexed in step across several arrays
 pub fn diameter(points: &[[f64; 3]]) -> f64 {
-    let dist2 = |a: &[f64; 3], b: &[f64; 3]| {
-        (a[0] - b[0]).powi(2) + (a[1] - b[1]).powi(2) + (a[2] - b[2]).powi(2)
-    };
-    let pairs_max = |pts: &[[f64; 3]]| {
-        let mut best = 0.0f64;
-        for (i, a) in pts.iter().enumerate() {
-            for b in &pts[i + 1..] {
-                best = best.max(dist2(a, b));
-            }
-        }
-        best.sqrt()
-    };
     if points.len() <= DIAMETER_EXACT_POINTS {
-        return pairs_max(points);
+        pairs_max(points)
+    } else {
+        extreme_pairs_max(points)
     }
+}
+
+/// The largest distance among the extreme points of `points` along 1024 directions.
+fn extreme_pairs_max(points: &[[f64; 3]]) -> f64 {
     let m = 1024;
     let golden = std::f64::consts::PI * (3.0 - 5.0f64.sqrt());
     use rayon::prelude::*;

@@ -232,7 +232,6 @@ pub const DIAMETER_EXACT_POINTS: usize = 4000;
 /// points; above, the pairs among the extreme points along 1024 directions of a Fibonacci
 /// sphere — a lower bound within a factor cos(θ) of the truth, θ ≤ 4.5° (worst angular gap
 /// of that direction set), i.e. within 0.31 %.
-#[allow(clippy::needless_range_loop)] // lanes indexed in step across several arrays
 pub fn diameter(points: &[[f64; 3]]) -> f64 {
     if points.len() <= DIAMETER_EXACT_POINTS {
         pairs_max(points)
@@ -242,6 +241,7 @@ pub fn diameter(points: &[[f64; 3]]) -> f64 {
 }
 
 /// The largest distance among the extreme points of `points` along 1024 directions.
+#[allow(clippy::needless_range_loop)] // lanes indexed in step across several arrays
 fn extreme_pairs_max(points: &[[f64; 3]]) -> f64 {
     let m = 1024;
     let golden = std::f64::consts::PI * (3.0 - 5.0f64.sqrt());

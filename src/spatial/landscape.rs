@@ -910,40 +910,47 @@ impl FastLandscape {
     /// order of `cells` (each given with a weight that is passed through). The same arithmetic,
     /// laid out so that the compiler can run it on vector lanes.
     pub fn cell_degrees(&self, cells: &[(usize, u32)], out: &mut Vec<(f64, u32)>) {
-        let n = cells.len();
-        let mut o = [vec![0i16; n], vec![0i16; n], vec![0i16; n]];
-        for (t, &(c, _)) in cells.iter().enumerate() {
-            o[0][t] = self.ox[c];
-            o[1][t] = self.oy[c];
-            o[2][t] = self.oz[c];
-        }
-        let mut deg = vec![0.0f64; n];
-        #[cfg(target_arch = "x86_64")]
-        {
-            if std::is_x86_feature_detected!("avx512f")
-                && std::is_x86_feature_detected!("avx512vl")
-                && std::is_x86_feature_detected!("avx512dq")
-                && std::is_x86_feature_detected!("avx512bw")
-            {
-                // SAFETY: the CPU supports the features the function is compiled for.
-                unsafe { self.degrees_avx512(&o, &mut deg) };
-            } else {
-                self.degrees_plain(&o, &mut deg);
-            }
-        }
-        #[cfg(not(target_arch = "x86_64"))]
-        self.degrees_plain(&o, &mut deg);
+        // In chunks with fixed buffers: a target can hold millions of cells, and large
+        // temporary vectors per call cost fresh pages each time.
+        const CHUNK: usize = 2048;
         out.clear();
-        out.extend(deg.into_iter().zip(cells.iter().map(|&(_, w)| w)));
+        out.reserve(cells.len());
+        let mut o = [[0i16; CHUNK]; 3];
+        let mut deg = [0.0f64; CHUNK];
+        for chunk in cells.chunks(CHUNK) {
+            let n = chunk.len();
+            for (t, &(c, _)) in chunk.iter().enumerate() {
+                o[0][t] = self.ox[c];
+                o[1][t] = self.oy[c];
+                o[2][t] = self.oz[c];
+            }
+            let (ox, oy, oz) = (&o[0][..n], &o[1][..n], &o[2][..n]);
+            #[cfg(target_arch = "x86_64")]
+            {
+                if std::is_x86_feature_detected!("avx512f")
+                    && std::is_x86_feature_detected!("avx512vl")
+                    && std::is_x86_feature_detected!("avx512dq")
+                    && std::is_x86_feature_detected!("avx512bw")
+                {
+                    // SAFETY: the CPU supports the features the function is compiled for.
+                    unsafe { self.degrees_avx512(ox, oy, oz, &mut deg[..n]) };
+                } else {
+                    self.degrees_plain(ox, oy, oz, &mut deg[..n]);
+                }
+            }
+            #[cfg(not(target_arch = "x86_64"))]
+            self.degrees_plain(ox, oy, oz, &mut deg[..n]);
+            out.extend(deg[..n].iter().copied().zip(chunk.iter().map(|&(_, w)| w)));
+        }
     }
 
     #[inline(always)]
-    fn degrees_plain(&self, o: &[Vec<i16>; 3], deg: &mut [f64]) {
+    fn degrees_plain(&self, ox: &[i16], oy: &[i16], oz: &[i16], deg: &mut [f64]) {
         let d = self.direction.map(|x| x as f64);
         let f = self.factor as f64;
         let l = self.fine_linear;
         let n = deg.len();
-        let (ox, oy, oz) = (&o[0][..n], &o[1][..n], &o[2][..n]);
+        let (ox, oy, oz) = (&ox[..n], &oy[..n], &oz[..n]);
         for t in 0..n {
             deg[t] = cell_degree_of(ox[t], oy[t], oz[t], f, &l, d);
         }
@@ -951,8 +958,8 @@ impl FastLandscape {
 
     #[cfg(target_arch = "x86_64")]
     #[target_feature(enable = "avx512f,avx512vl,avx512bw,avx512dq,avx2")]
-    unsafe fn degrees_avx512(&self, o: &[Vec<i16>; 3], deg: &mut [f64]) {
-        self.degrees_plain(o, deg);
+    unsafe fn degrees_avx512(&self, ox: &[i16], oy: &[i16], oz: &[i16], deg: &mut [f64]) {
+        self.degrees_plain(ox, oy, oz, deg);
     }
 
     /// The degree at a global voxel (0 outside the box or where no origin was found).

@@ -534,9 +534,14 @@ struct PassJob<'a> {
     bufs: Vec<SlicePtrs>,
     /// An all-NaN slice: the "previous slice" of a pass's first one.
     none: SlicePtrs,
-    progress: Vec<AtomicUsize>,
+    progress: Vec<Progress>,
     abort: AtomicBool,
 }
+
+/// Wavefronts finished of one slice position, alone on its cache line: the two workers
+/// write neighbouring positions' counters at the same time.
+#[repr(align(64))]
+struct Progress(AtomicUsize);
 
 // SAFETY: the workers touch disjoint slices of the origin arrays and disjoint wavefronts of
 // the slice buffers, ordered by the release/acquire `progress` counters (see `run_slices`).
@@ -614,11 +619,16 @@ impl PassJob<'_> {
         self.run_dispatch(start, step);
     }
 
-    /// Waits until slice position `t` has finished `need` wavefronts.
+    /// Waits until slice position `t` has finished `need` wavefronts; returns how many it
+    /// has finished (at least `need`), so that the caller need not look again before then.
     #[inline(always)]
-    fn wait_rows(&self, t: usize, need: usize) {
+    fn wait_rows(&self, t: usize, need: usize) -> usize {
         let mut spins = 0u32;
-        while self.progress[t].load(Ordering::Acquire) < need {
+        loop {
+            let done = self.progress[t].0.load(Ordering::Acquire);
+            if done >= need {
+                return done;
+            }
             if self.abort.load(Ordering::Relaxed) {
                 panic!("a landscape pass worker stopped");
             }
@@ -684,9 +694,14 @@ impl PassJob<'_> {
                     std::slice::from_raw_parts(self.oz.add(base), size),
                 );
             }
+            // Wavefronts of the previous slice known to be finished: the shared counter is
+            // read again only when more are needed (it lives on a cache line the other
+            // worker keeps writing).
+            let mut seen = 0;
             for s in 0..nt {
-                if sync && t > 0 {
-                    self.wait_rows(t - 1, (s + 1 + PAD_T).min(nt));
+                let need = (s + 1 + PAD_T).min(nt);
+                if sync && t > 0 && seen < need {
+                    seen = self.wait_rows(t - 1, need);
                 }
                 let w = if self.forward { s } else { nt - 1 - s };
                 let (jl, jh) = sk.lanes[w];
@@ -706,7 +721,7 @@ impl PassJob<'_> {
                 let mut dst = unsafe { cur.row_mut(sk.slot(w, jl), m) };
                 relax_wavefront::<DIAG, AX>(&l, &d, &srcs, &es, &mut dst, n);
                 if sync {
-                    self.progress[t].store(s + 1, Ordering::Release);
+                    self.progress[t].0.store(s + 1, Ordering::Release);
                 }
             }
             // SAFETY: as for the load; readers of this buffer only read.
@@ -853,7 +868,7 @@ impl FastLandscape {
             bufs: bufs.iter_mut().map(SliceBuf::ptrs).collect(),
             none: none.ptrs(),
             progress: if two {
-                ks.iter().map(|_| AtomicUsize::new(0)).collect()
+                ks.iter().map(|_| Progress(AtomicUsize::new(0))).collect()
             } else {
                 Vec::new()
             },

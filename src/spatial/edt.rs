@@ -55,13 +55,14 @@ pub fn edt_squared_into(dims: [usize; 3], spacing: [f64; 3], feature: &[bool], d
         });
     // Axis j: lines inside each k-slab, gathered row by row into a transposed buffer so
     // that memory is read and written in order.
+    // A slab without a feature voxel is infinite after the first axis and stays so: it is
+    // skipped by the second axis (for a small region in a large box, most slabs are), and
+    // the third reads only the others, which the second has made finite throughout.
+    let slab_has: Vec<bool> = feature
+        .par_chunks(nx * ny)
+        .map(|c| c.contains(&true))
+        .collect();
     if ny > 1 {
-        // A slab without a feature voxel is infinite after the first axis and stays so: it
-        // is skipped (for a small region in a large box, most slabs are).
-        let slab_has: Vec<bool> = feature
-            .par_chunks(nx * ny)
-            .map(|c| c.contains(&true))
-            .collect();
         d.par_chunks_mut(nx * ny)
             .zip(slab_has.par_iter())
             .for_each_init(
@@ -100,25 +101,38 @@ pub fn edt_squared_into(dims: [usize; 3], spacing: [f64; 3], feature: &[bool], d
     // exactly one task, so the writes of different tasks never meet.
     if nz > 1 {
         let plane = nx * ny;
+        let ks: Vec<usize> = (0..nz).filter(|&k| slab_has[k]).collect();
+        let m = ks.len();
         let ptr = SharedSlice(d.as_mut_ptr());
         let len = d.len();
         (0..ny).into_par_iter().for_each_init(
-            || (Scratch::new(nz), vec![0.0f64; nx * nz]),
-            |(s, t), j| {
+            || {
+                (
+                    Scratch::new(nz),
+                    vec![0.0f64; nx * m],
+                    vec![0.0f64; nx * nz],
+                )
+            },
+            |(s, g, t), j| {
                 let p = &ptr;
-                for k in 0..nz {
+                // Gather the finite samples only (the slabs in `ks`), column by column.
+                for (r, &k) in ks.iter().enumerate() {
                     let row = nx * j + plane * k;
                     debug_assert!(row + nx <= len);
                     for i in 0..nx {
                         // SAFETY: row + i < len; row j of plane k is touched by this task only.
-                        t[i * nz + k] = unsafe { *p.0.add(row + i) };
+                        g[i * m + r] = unsafe { *p.0.add(row + i) };
                     }
                 }
                 for i in 0..nx {
-                    let line = &mut t[i * nz..(i + 1) * nz];
-                    s.f[..nz].copy_from_slice(line);
-                    lower_envelope(&s.f[..nz], spacing[2], &mut s.out[..nz], &mut s.v, &mut s.z);
-                    line.copy_from_slice(&s.out[..nz]);
+                    lower_envelope_sparse(
+                        &ks,
+                        &g[i * m..(i + 1) * m],
+                        spacing[2],
+                        &mut t[i * nz..(i + 1) * nz],
+                        &mut s.v,
+                        &mut s.z,
+                    );
                 }
                 for k in 0..nz {
                     let row = nx * j + plane * k;
@@ -167,14 +181,50 @@ impl Scratch {
 /// is infinite hold no parabola, so lines without features stay infinite.
 pub fn lower_envelope(f: &[f64], s: f64, out: &mut [f64], v: &mut [usize], z: &mut [f64]) {
     let n = f.len();
+    let points = f.iter().enumerate().filter(|(_, x)| x.is_finite());
+    envelope(
+        points.map(|(q, &x)| (q, x)),
+        |q| q,
+        |q| f[q],
+        s,
+        &mut out[..n],
+        v,
+        z,
+    );
+}
+
+/// [`lower_envelope`] of a line that is infinite except at the increasing positions `pos`,
+/// where it takes the values `vals`; `out` covers the whole line. The same arithmetic as
+/// the dense form, so the same values, without reading the infinite samples.
+pub fn lower_envelope_sparse(
+    pos: &[usize],
+    vals: &[f64],
+    s: f64,
+    out: &mut [f64],
+    v: &mut [usize],
+    z: &mut [f64],
+) {
+    // Samples are named by their index r in `pos`.
+    let points = vals.iter().copied().enumerate();
+    envelope(points, |r| pos[r], |r| vals[r], s, out, v, z);
+}
+
+/// Algorithm DT(f) over the finite samples `points` (name, value), in increasing position;
+/// `position` and `value` look a sample up by name. `v` holds names, `z` the boundaries.
+fn envelope(
+    points: impl Iterator<Item = (usize, f64)>,
+    position: impl Fn(usize) -> usize,
+    value: impl Fn(usize) -> f64,
+    s: f64,
+    out: &mut [f64],
+    v: &mut [usize],
+    z: &mut [f64],
+) {
     let mut k: usize = 0;
     let mut any = false;
-    for q in 0..n {
-        if !f[q].is_finite() {
-            continue;
-        }
-        let xq = q as f64 * s;
-        let fq = f[q] + xq * xq;
+    for (q, fval) in points {
+        let xq = position(q) as f64 * s;
+        let fq = fval + xq * xq;
         if !any {
             any = true;
             k = 0;
@@ -185,8 +235,8 @@ pub fn lower_envelope(f: &[f64], s: f64, out: &mut [f64], v: &mut [usize], z: &m
         }
         loop {
             let p = v[k];
-            let xp = p as f64 * s;
-            let inter = (fq - (f[p] + xp * xp)) / (2.0 * (xq - xp));
+            let xp = position(p) as f64 * s;
+            let inter = (fq - (value(p) + xp * xp)) / (2.0 * (xq - xp));
             if inter <= z[k] {
                 if k == 0 {
                     // The new parabola hides every earlier one.
@@ -210,13 +260,13 @@ pub fn lower_envelope(f: &[f64], s: f64, out: &mut [f64], v: &mut [usize], z: &m
         return;
     }
     let mut k = 0;
-    for (q, o) in out.iter_mut().enumerate().take(n) {
+    for (q, o) in out.iter_mut().enumerate() {
         let x = q as f64 * s;
         while z[k + 1] < x {
             k += 1;
         }
-        let dx = x - v[k] as f64 * s;
-        *o = dx * dx + f[v[k]];
+        let dx = x - position(v[k]) as f64 * s;
+        *o = dx * dx + value(v[k]);
     }
 }
 

@@ -740,3 +740,57 @@ fn diameter_and_box_from_row_ends_equal_the_whole_surface() {
     }
     assert!(seen_large, "one blob must take the many-points branch");
 }
+
+#[test]
+fn thin_boxes_propagate_like_thick_ones() {
+    // Bloch 1999 (definition of ν): with one reference point, every voxel's degree is the
+    // single-point value, 1 on the ray and 1 − 2·atan(1/2)/π ≈ 0.704833 at offset (2, 1).
+    // Boxes one voxel thin along x, y or both (the wavefront layout then has empty lines),
+    // in both directions along the remaining axes.
+    let aff = Affine::identity();
+    let single = 1.0 - 2.0 * 0.5f64.atan() / std::f64::consts::PI;
+    let cases: [([usize; 3], [i64; 3], Direction, [i64; 3], [i64; 3]); 6] = [
+        (
+            [1, 9, 6],
+            [0, 2, 2],
+            Direction::Anterior,
+            [0, 6, 2],
+            [0, 4, 3],
+        ),
+        (
+            [1, 9, 6],
+            [0, 6, 2],
+            Direction::Posterior,
+            [0, 1, 2],
+            [0, 4, 3],
+        ),
+        ([8, 1, 7], [1, 0, 3], Direction::Right, [6, 0, 3], [3, 0, 4]),
+        (
+            [8, 1, 7],
+            [6, 0, 3],
+            Direction::Superior,
+            [6, 0, 6],
+            [5, 0, 5],
+        ),
+        (
+            [1, 1, 9],
+            [0, 0, 1],
+            Direction::Superior,
+            [0, 0, 8],
+            [0, 0, 0],
+        ),
+        ([9, 8, 1], [1, 1, 0], Direction::Right, [7, 1, 0], [3, 2, 0]),
+    ];
+    for (dims, r, dir, on_ray, off) in cases {
+        let reference = Mask::from_voxels(&[r]);
+        let fast = FastLandscape::compute(&reference, [0, 0, 0], dims, &aff, dir.vector());
+        assert_eq!(fast.degree(on_ray), 1.0, "{dims:?} {dir:?} on the ray");
+        let d = fast.degree(off);
+        let want = if dims[0] == 1 && dims[1] == 1 {
+            0.0
+        } else {
+            single
+        };
+        assert!((d - want).abs() < 5e-7, "{dims:?} {dir:?} at {off:?}: {d}");
+    }
+}

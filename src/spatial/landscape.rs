@@ -244,7 +244,8 @@ pub struct CellLayout {
     ny: usize,
     /// Number of wavefronts, nx + 2(ny − 1).
     nt: usize,
-    /// The first and last j of each wavefront.
+    /// The first j and the number of cells of each wavefront (none on the odd lines of a
+    /// one-cell-wide slice).
     lanes: Vec<(usize, usize)>,
     /// The first slot of row t + PAD_T.
     off: Vec<usize>,
@@ -271,8 +272,8 @@ impl CellLayout {
                 // i = t − 2j must lie in 0..nx and j in 0..ny.
                 let lo = ((t - nx as i64 + 1).max(0) + 1) / 2;
                 let hi = (t / 2).min(ny as i64 - 1);
-                lanes.push((lo as usize, hi as usize));
-                let n = (hi - lo + 1) as usize;
+                let n = (hi - lo + 1).max(0) as usize;
+                lanes.push((lo as usize, n));
                 // The padded lane count of a wavefront differs from a neighbouring one's by
                 // at most 2 cells and starts at most 4 slots into its row (see `lanes`).
                 (lo - 1, (n + 2).next_multiple_of(LANES) + 8)
@@ -704,8 +705,7 @@ impl PassJob<'_> {
                     seen = self.wait_rows(t - 1, need);
                 }
                 let w = if self.forward { s } else { nt - 1 - s };
-                let (jl, jh) = sk.lanes[w];
-                let n = jh - jl + 1;
+                let (jl, n) = sk.lanes[w];
                 let m = n.next_multiple_of(LANES);
                 let (w, jl) = (w as i64, jl as i64);
                 // SAFETY: the previous slice's rows were waited for above; this slice's

@@ -749,7 +749,9 @@ fn thin_boxes_propagate_like_thick_ones() {
     // in both directions along the remaining axes.
     let aff = Affine::identity();
     let single = 1.0 - 2.0 * 0.5f64.atan() / std::f64::consts::PI;
-    let cases: [([usize; 3], [i64; 3], Direction, [i64; 3], [i64; 3]); 6] = [
+    // (box, reference voxel, direction, a voxel on the ray, a voxel at offset (2, 1))
+    type Case = ([usize; 3], [i64; 3], Direction, [i64; 3], [i64; 3]);
+    let cases: [Case; 6] = [
         (
             [1, 9, 6],
             [0, 2, 2],

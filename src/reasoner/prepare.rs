@@ -338,7 +338,8 @@ pub fn prepare(
 }
 
 /// Absorbs C ⊑ D: into an atom of C when C has one, into a role when C is ∃r.X (as
-/// X ⊑ ∀r⁻.D), split over unions; otherwise internalised as ⊤ ⊑ ¬C ⊔ D.
+/// X ⊑ ∀r⁻.D), into an individual when C is {a} (as D(a)), split over unions; otherwise
+/// internalised as ⊤ ⊑ ¬C ⊔ D.
 fn absorb(
     c: ConceptId,
     d: ConceptId,
@@ -424,6 +425,10 @@ fn absorb(
                 universal.push(concepts.or([nc, d]));
             }
         }
+        // {a} ⊑ D is the class assertion D(a) (OWL 2 Direct Semantics: {a}ᴵ = {aᴵ}). It
+        // arises from ∃r.{a} ⊑ D (ObjectHasValue on the left, via the role absorption
+        // below) and, internalised, would put the disjunction ¬{a} ⊔ D on every node.
+        Concept::Nominal(a) => p.class_assertions.push((d, a)),
         Concept::Some(r, x) => {
             if x == ConceptId::TOP {
                 p.triggers[r.index()].push(d);

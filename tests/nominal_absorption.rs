@@ -72,3 +72,38 @@ fn has_value_on_the_left_classifies_without_branching_everywhere() {
     let s: serde_json::Value = serde_json::from_str(stats).unwrap();
     assert!(s["branches"].as_u64().unwrap() <= 10, "{stats}");
 }
+
+#[test]
+fn complement_of_has_value_counts_as_a_tbox_nominal() {
+    // DisjointClasses(A ¬∃p.{a}) is A ⊑ ∃p.{a}: a nominal in the TBox even though it is
+    // written under a complement. Before it was counted as one, the test of D (⊑ ∃q.A) ran
+    // without the individuals and panicked on {a}. Hand-derived and HermiT 1.3.8 agree: A
+    // and D are satisfiable, no subsumption between named classes.
+    let text = "Prefix(:=<http://x.org/neg#>)
+Ontology(<http://x.org/neg>
+Declaration(Class(:A)) Declaration(Class(:D))
+Declaration(ObjectProperty(:p)) Declaration(ObjectProperty(:q))
+Declaration(NamedIndividual(:a)) Declaration(NamedIndividual(:b))
+DisjointClasses(:A ObjectComplementOf(ObjectHasValue(:p :a)))
+SubClassOf(:D ObjectSomeValuesFrom(:q :A))
+ObjectPropertyAssertion(:q :b :a)
+)
+";
+    let d = std::env::temp_dir().join(format!("wf-nominal-absorption-{}", std::process::id()));
+    std::fs::create_dir_all(&d).unwrap();
+    let f = d.join("complement.ofn");
+    std::fs::write(&f, text).unwrap();
+    let out = Command::new(env!("CARGO_BIN_EXE_wherefore"))
+        .arg("classify")
+        .arg(&f)
+        .args(["--format", "json"])
+        .output()
+        .unwrap();
+    let stderr = String::from_utf8_lossy(&out.stderr).to_string();
+    assert_eq!(out.status.code(), Some(0), "{stderr}");
+    let v: serde_json::Value = serde_json::from_slice(&out.stdout).unwrap();
+    assert_eq!(
+        v,
+        serde_json::json!({"consistent": true, "unsatisfiable": [], "subsumptions": []})
+    );
+}

@@ -198,6 +198,11 @@ pub fn prepare(
                     }
                     Concept::All(_, f) => {
                         if let Concept::NotNominal(_) = concepts.get(f) {
+                            // ∀r.¬{a} (from ¬ObjectHasValue) turns into ∃r.{a} when its axiom
+                            // is internalised with the side negated: a nominal in the TBox.
+                            if is_tbox {
+                                tbox_nominals = true;
+                            }
                         } else {
                             stack.push((f, false));
                         }
@@ -216,6 +221,13 @@ pub fn prepare(
                     // equalities between named individuals, which the tableau handles by
                     // merging root nodes.
                     Concept::Nominal(_) if !is_tbox && top => {}
+                    // ¬{a} in the TBox: negated with its side it is the enumeration {a}.
+                    Concept::NotNominal(_) if is_tbox => {
+                        return Err(Refusal {
+                            axiom: text(),
+                            reason: "the complement of an enumeration (ObjectComplementOf(ObjectOneOf(...))) used as a class in the TBox needs a reasoner with full nominal support; only ObjectHasValue fillers and ABox uses are handled".into(),
+                        });
+                    }
                     Concept::Nominal(_) => {
                         return Err(Refusal {
                             axiom: text(),

@@ -55,7 +55,12 @@ def gen(seed):
         elif k < 0.8:
             ax.append("SubClassOf(%s %s)" % (ce(), rnd.choice(classes)))
         else:
-            ax.append("DisjointClasses(%s %s)" % (ce(), ce()))
+            # Two different operands: DisjointClasses(X X) is DisjointClasses(X), which
+            # OWL 2 does not allow (at least two classes).
+            a, b = ce(), ce()
+            while a == b:
+                b = ce()
+            ax.append("DisjointClasses(%s %s)" % (a, b))
     if len(props) > 1 and rnd.random() < 0.5:
         ax.append("SubObjectPropertyOf(%s %s)" % tuple(rnd.sample(props, 2)))
     if rnd.random() < 0.3:

@@ -8,7 +8,10 @@
 //!   (goal < 100 ms), with and without justifications;
 //! - `abduction_60_abducible_classes`: 60 hypothesis classes × 3 findings, explanations up
 //!   to size 3 without justifications (goal < 1 s); prints the reasoner calls against a
-//!   brute-force enumeration of every candidate set.
+//!   brute-force enumeration of every candidate set;
+//! - `classify_real_rico`, `classify_real_dbpedia`: classification (loading excluded) of two
+//!   real ontologies from tests/fixtures/real/ (RiC-O 1.0.2, DBpedia 4.2), whose answers are
+//!   HermiT's; HermiT's own end-to-end times are in docs/oracle.md.
 
 use criterion::{Criterion, criterion_group, criterion_main};
 use std::fmt::Write as _;
@@ -530,6 +533,29 @@ fn benches(c: &mut Criterion) {
         });
     } else {
         eprintln!("abduction_60_abducible_classes: NOT BENCHMARKED, the search hit its limit");
+    }
+
+    // 5. Real ontologies (answers recorded from HermiT, tests/fixtures/real/README.md).
+    let real = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("tests/fixtures/real");
+    for (name, file) in [("rico", "rico-1.0.2"), ("dbpedia", "dbpedia-4.2")] {
+        let kb = load(&[real.join(format!("{file}.ofn"))], &LoadOptions::default())
+            .expect("real ontology");
+        let expected: serde_json::Value = serde_json::from_str(
+            &std::fs::read_to_string(real.join(format!("{file}.json"))).expect("expected answer"),
+        )
+        .expect("expected JSON");
+        let cl = classify(&mut Reasoner::new(&kb).unwrap(), &kb.signature_classes).unwrap();
+        assert_eq!(
+            cl.subsumptions.len(),
+            expected["subsumptions"].as_array().map_or(0, Vec::len),
+            "{file}: HermiT's number of subsumptions"
+        );
+        g.bench_function(format!("classify_real_{name}"), |b| {
+            b.iter(|| {
+                let mut r = Reasoner::new(&kb).unwrap();
+                black_box(classify(&mut r, &kb.signature_classes).unwrap())
+            })
+        });
     }
     g.finish();
     let _ = std::fs::remove_dir_all(&dir);

@@ -80,19 +80,16 @@ published! {
     infinite_model_only: "infinite-model", "hand-derived, SHIQ semantics";
 }
 
-/// The real ontology: Brick 1.1 from the brickschema 0.8.0 PyPI package (BSD-3-Clause),
-/// expected answer from HermiT 1.3.8 in owlready2 0.51 (tests/fixtures/real/README.md).
-/// Run with `--lenient`: its 42 asymmetric and irreflexive property axioms are outside
-/// SHIQ, and HermiT's classification is the same without them (checked by
-/// scripts/real-ontology).
-#[test]
-fn real_ontology_brick_1_1_agrees_with_oracle() {
+/// Classifies tests/fixtures/real/FILE and compares with the oracle's recorded answer
+/// (the file's name with `.json`).
+fn run_real(file: &str, extra_args: Vec<&'static str>) {
     let dir = PathBuf::from(env!("CARGO_MANIFEST_DIR")).join("tests/fixtures/real");
+    let name = file.rsplit_once('.').map_or(file, |(stem, _)| stem);
     let case = Case {
-        ontology: dir.join("brick-1.1.ofn"),
-        expected: dir.join("brick-1.1.json"),
+        ontology: dir.join(file),
+        expected: dir.join(format!("{name}.json")),
         source: "HermiT 1.3.8 (owlready2 0.51), tests/fixtures/real/README.md".to_owned(),
-        extra_args: vec!["--lenient"],
+        extra_args,
     };
     let failures: Vec<String> = check(&case)
         .err()
@@ -102,7 +99,62 @@ fn real_ontology_brick_1_1_agrees_with_oracle() {
     assert_no_failures("real ontologies", 1, &failures);
 }
 
-/// horned-owl reads every published fixture and the real ontology completely, comments
+/// The real ontology: Brick 1.1 from the brickschema 0.8.0 PyPI package (BSD-3-Clause),
+/// expected answer from HermiT 1.3.8 in owlready2 0.51 (tests/fixtures/real/README.md).
+/// Run with `--lenient`: its 42 asymmetric and irreflexive property axioms are outside
+/// SHIQ, and HermiT's classification is the same without them (checked by
+/// scripts/real-ontology).
+#[test]
+fn real_ontology_brick_1_1_agrees_with_oracle() {
+    run_real("brick-1.1.ofn", vec!["--lenient"]);
+}
+
+/// RiC-O 1.0.2 (International Council on Archives, CC-BY-4.0) from the npm package
+/// @vocabulary/rico 2.0.1: 108 classes, 336 inverse pairs, 22 transitive and 16 symmetric
+/// properties. Expected answer: HermiT 1.3.8 (owlready2 0.51) on this file, 297
+/// subsumptions; HermiT gives the same answer with the removed property chains and self
+/// restrictions put back (scripts/real-ontology, tests/fixtures/real/README.md).
+#[test]
+fn real_ontology_rico_agrees_with_oracle() {
+    run_real("rico-1.0.2.ofn", Vec::new());
+}
+
+/// DBpedia ontology 4.2 (CC-BY-SA-3.0) from the npm package @vocabulary/dbo 1.1.0: 1,168
+/// classes, 50 disjointness axioms. Expected answer: HermiT 1.3.8 (owlready2 0.51) on this
+/// file, 8,146 subsumptions and 3 unsatisfiable classes (dbo:Library is both a Building, a
+/// Place, and an EducationalInstitution, an Agent, and Agent and Place are disjoint).
+#[test]
+fn real_ontology_dbpedia_agrees_with_oracle() {
+    run_real("dbpedia-4.2.ofn", Vec::new());
+}
+
+/// W3C/OGC SOSA + SSN (2017, W3C Software and Document licence) from the npm packages
+/// @vocabulary/sosa and @vocabulary/ssn 1.0.6: inverse, functional and inverse-functional
+/// properties, qualified cardinalities. Expected answer: HermiT 1.3.8 (owlready2 0.51) on
+/// this file, the same as on the file with the removed axioms put back.
+#[test]
+fn real_ontology_ssn_agrees_with_oracle() {
+    run_real("ssn-2017.ofn", Vec::new());
+}
+
+/// W3C/OGC Time Ontology in OWL (2017, CC-BY-4.0) from the npm package @vocabulary/time
+/// 1.0.6: unions, cardinalities, a transitive property. Expected answer: HermiT 1.3.8
+/// (owlready2 0.51) on this file, 25 subsumptions.
+#[test]
+fn real_ontology_owl_time_agrees_with_oracle() {
+    run_real("time-2017.ofn", Vec::new());
+}
+
+/// The tawny-owl pizza in RDF/XML, byte for byte from the horned-owl 4.0.0 crate
+/// (LGPL-3.0): 78 classes, 8 owl:AllDisjointClasses lists that horned-owl alone leaves
+/// unread. Expected answer: HermiT 1.3.8 (owlready2 0.51) on the same file, 146
+/// subsumptions (tests/fixtures/real/README.md).
+#[test]
+fn real_ontology_pizza_rdf_xml_agrees_with_oracle() {
+    run_real("pizza-tawny.owl", Vec::new());
+}
+
+/// horned-owl reads every published fixture and the real ontologies completely, comments
 /// included, so that a failure above is never a parse gap of the test files.
 #[test]
 fn fixtures_parse_with_horned_owl() {
@@ -112,9 +164,17 @@ fn fixtures_parse_with_horned_owl() {
         .filter_map(|e| e.ok().map(|e| e.path()))
         .filter(|p| p.extension().is_some_and(|x| x == "ofn"))
         .collect();
-    files.push(root.join("real/brick-1.1.ofn"));
-    // 19 published files (tests/fixtures/published/README.md) plus Brick.
-    assert_eq!(files.len(), 20);
+    for name in [
+        "brick-1.1",
+        "rico-1.0.2",
+        "dbpedia-4.2",
+        "ssn-2017",
+        "time-2017",
+    ] {
+        files.push(root.join(format!("real/{name}.ofn")));
+    }
+    // 19 published files (tests/fixtures/published/README.md) plus five real ontologies.
+    assert_eq!(files.len(), 24);
     for f in files {
         let n = parse_with_horned_owl(&f).unwrap_or_else(|e| panic!("{e}"));
         assert!(n >= 2, "{}: only {n} components", f.display());

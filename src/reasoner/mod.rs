@@ -128,6 +128,9 @@ pub struct Reasoner<'kb> {
     pub stats: Stats,
     consistent: Option<Answer>,
     cache: cache::SatCache,
+    /// The ABox's completion graph when the consistency test never branched: concept tests
+    /// that need the ABox start from it instead of expanding the ABox again.
+    abox_base: Option<tableau::Graph>,
 }
 
 impl<'kb> Reasoner<'kb> {
@@ -152,6 +155,7 @@ impl<'kb> Reasoner<'kb> {
             stats: Stats::default(),
             consistent: None,
             cache: cache::SatCache::default(),
+            abox_base: None,
         })
     }
 
@@ -177,6 +181,18 @@ impl<'kb> Reasoner<'kb> {
 
     /// Runs one tableau test.
     pub fn run(&mut self, with_abox: bool, query: Option<ConceptId>, extra: &Extra) -> Outcome {
+        self.run_keeping(with_abox, query, extra, false).0
+    }
+
+    /// Runs one tableau test; with `keep`, also returns the final graph when the run was
+    /// deterministic. A concept test on the ABox starts from the stored ABox graph.
+    fn run_keeping(
+        &mut self,
+        with_abox: bool,
+        query: Option<ConceptId>,
+        extra: &Extra,
+        keep: bool,
+    ) -> (Outcome, Option<tableau::Graph>) {
         let mut t = tableau::Tableau::new(
             &self.prep,
             &mut self.concepts,
@@ -184,7 +200,16 @@ impl<'kb> Reasoner<'kb> {
             self.limits.clone(),
             &mut self.cache,
         );
-        let out = t.run(with_abox, query, extra);
+        let plain = extra.classes.is_empty() && extra.roles.is_empty();
+        let out = match (&self.abox_base, query) {
+            (Some(base), Some(q)) if with_abox && plain => t.run_from(base, q),
+            _ => t.run(with_abox, query, extra),
+        };
+        let graph = if keep && matches!(out, Outcome::Sat(_)) {
+            t.deterministic_graph()
+        } else {
+            None
+        };
         let mut s = t.stats;
         drop(t);
         // A concept test without extra assertions that fails proves the concept empty in
@@ -197,7 +222,7 @@ impl<'kb> Reasoner<'kb> {
         }
         s.tests = 1;
         self.stats.add(&s);
-        out
+        (out, graph)
     }
 
     /// Runs one test and reports whether it had to branch.
@@ -223,7 +248,9 @@ impl<'kb> Reasoner<'kb> {
         } else {
             None
         };
-        let a = match self.run(true, probe, &Extra::default()) {
+        let (out, graph) = self.run_keeping(true, probe, &Extra::default(), probe.is_none());
+        self.abox_base = graph;
+        let a = match out {
             Outcome::Sat(_) => Answer::Yes,
             Outcome::Unsat => Answer::No,
             Outcome::Unknown(l) => Answer::Unknown(l),

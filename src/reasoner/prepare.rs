@@ -198,6 +198,11 @@ pub fn prepare(
                     }
                     Concept::All(_, f) => {
                         if let Concept::NotNominal(_) = concepts.get(f) {
+                            // ∀r.¬{a} (from ¬ObjectHasValue) turns into ∃r.{a} when its axiom
+                            // is internalised with the side negated: a nominal in the TBox.
+                            if is_tbox {
+                                tbox_nominals = true;
+                            }
                         } else {
                             stack.push((f, false));
                         }
@@ -216,6 +221,13 @@ pub fn prepare(
                     // equalities between named individuals, which the tableau handles by
                     // merging root nodes.
                     Concept::Nominal(_) if !is_tbox && top => {}
+                    // ¬{a} in the TBox: negated with its side it is the enumeration {a}.
+                    Concept::NotNominal(_) if is_tbox => {
+                        return Err(Refusal {
+                            axiom: text(),
+                            reason: "the complement of an enumeration (ObjectComplementOf(ObjectOneOf(...))) used as a class in the TBox needs a reasoner with full nominal support; only ObjectHasValue fillers and ABox uses are handled".into(),
+                        });
+                    }
                     Concept::Nominal(_) => {
                         return Err(Refusal {
                             axiom: text(),
@@ -338,7 +350,8 @@ pub fn prepare(
 }
 
 /// Absorbs C ⊑ D: into an atom of C when C has one, into a role when C is ∃r.X (as
-/// X ⊑ ∀r⁻.D), split over unions; otherwise internalised as ⊤ ⊑ ¬C ⊔ D.
+/// X ⊑ ∀r⁻.D), into an individual when C is {a} (as D(a)), split over unions; otherwise
+/// internalised as ⊤ ⊑ ¬C ⊔ D.
 fn absorb(
     c: ConceptId,
     d: ConceptId,
@@ -424,6 +437,10 @@ fn absorb(
                 universal.push(concepts.or([nc, d]));
             }
         }
+        // {a} ⊑ D is the class assertion D(a) (OWL 2 Direct Semantics: {a}ᴵ = {aᴵ}). It
+        // arises from ∃r.{a} ⊑ D (ObjectHasValue on the left, via the role absorption
+        // below) and, internalised, would put the disjunction ¬{a} ⊔ D on every node.
+        Concept::Nominal(a) => p.class_assertions.push((d, a)),
         Concept::Some(r, x) => {
             if x == ConceptId::TOP {
                 p.triggers[r.index()].push(d);

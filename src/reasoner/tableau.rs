@@ -132,8 +132,9 @@ impl<T> std::ops::Index<usize> for Chunked<T> {
 }
 
 /// The completion graph.
+/// A completion graph: every node, edge and the bookkeeping of the expansion.
 #[derive(Clone, Debug, Default)]
-struct Graph {
+pub struct Graph {
     nodes: Chunked<Node>,
     edges: Chunked<Edge>,
     ineq: Vec<(NodeId, NodeId, Dep)>,
@@ -335,6 +336,40 @@ impl<'a> Tableau<'a> {
             self.add(n, q, Dep::EMPTY);
             self.add(n, u, Dep::EMPTY);
         }
+    }
+
+    /// Decides satisfiability of `query` for a fresh individual, starting from `base`: the
+    /// complete, clash-free graph that a deterministic run on the ABox alone ended with.
+    /// Every entry of `base` was derived without a choice, so it holds in every model, and
+    /// continuing from it is the same search as a run that expanded the ABox first.
+    pub fn run_from(&mut self, base: &Graph, query: ConceptId) -> Outcome {
+        self.record = false;
+        self.g = base.clone();
+        let u = self.prep.universal;
+        let n = self.new_node(None);
+        self.query_root = Some(n);
+        self.add(n, query, Dep::EMPTY);
+        self.add(n, u, Dep::EMPTY);
+        self.search()
+    }
+
+    /// The graph after a run whose every entry was derived without a choice (no
+    /// branching point opened, every dependency empty), for [`Tableau::run_from`].
+    pub fn deterministic_graph(&self) -> Option<Graph> {
+        if self.stats.branches > 0 || self.clash.is_some() || !self.stack.is_empty() {
+            return None;
+        }
+        let g = &self.g;
+        let nodes_ok = g
+            .nodes
+            .iter()
+            .all(|n| n.deps.0.iter().all(|&(_, d)| d == Dep::EMPTY));
+        let edges_ok = g
+            .edges
+            .iter()
+            .all(|e| e.roles.iter().all(|&(_, d)| d == Dep::EMPTY));
+        let ineq_ok = g.ineq.iter().all(|&(_, _, d)| d == Dep::EMPTY);
+        (nodes_ok && edges_ok && ineq_ok && g.queue.is_empty()).then(|| g.clone())
     }
 
     fn ind(&self, a: IndividualId) -> NodeId {

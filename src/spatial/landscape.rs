@@ -210,9 +210,9 @@ pub struct FastLandscape {
     direction: [f32; 3],
 }
 
-/// Boxes with at least this many propagation cells run each raster pass on two threads
-/// (a slice pipeline); smaller ones, such as the landscapes of a `measure` plan, which run
-/// side by side, use one.
+/// With two threads allowed ([`FastLandscape::compute_threads`]), boxes with at least this
+/// many propagation cells run each raster pass as a two-thread slice pipeline; smaller
+/// ones use one.
 pub const PIPELINE_MIN_CELLS: usize = 1 << 22;
 
 /// Padding rows before the first and after the last wavefront of a [`CellLayout`].
@@ -762,7 +762,11 @@ impl FastLandscape {
         d: [f64; 3],
         factor: usize,
     ) -> Self {
-        Self::compute_threads(reference, lo, dims, affine, d, factor, 2)
+        // One thread: the wavefront sweep of a 256³ box takes about 0.25 s on one core, and
+        // the two-thread slice pipeline (`compute_threads`) measured no steadier gain on two
+        // cores (0.24–0.37 s wall for twice the CPU time); `measure` runs its landscapes
+        // side by side instead.
+        Self::compute_threads(reference, lo, dims, affine, d, factor, 1)
     }
 
     /// As [`FastLandscape::compute_coarse`], with at most `max_threads` threads per pass (1

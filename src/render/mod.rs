@@ -287,6 +287,19 @@ fn is_directional(rel: &str) -> bool {
     )
 }
 
+/// The opposite of a directional relation and the name of their axis.
+fn opposite(rel: &str) -> Option<(&'static str, &'static str)> {
+    Some(match rel {
+        "left_of" => ("right_of", "left–right"),
+        "right_of" => ("left_of", "left–right"),
+        "anterior_of" => ("posterior_of", "anterior–posterior"),
+        "posterior_of" => ("anterior_of", "anterior–posterior"),
+        "superior_of" => ("inferior_of", "superior–inferior"),
+        "inferior_of" => ("superior_of", "superior–inferior"),
+        _ => return None,
+    })
+}
+
 fn fmt_num(v: f64) -> String {
     if v >= 100.0 {
         format!("{v:.0}")
@@ -325,7 +338,36 @@ fn clinician_text(
             ind.centroid_mm[1],
             ind.centroid_mm[2]
         );
-        for r in shown_relations(input, &ind.id) {
+        let rels = shown_relations(input, &ind.id);
+        let mut merged = vec![false; rels.len()];
+        for (i, r) in rels.iter().enumerate() {
+            if merged[i] {
+                continue;
+            }
+            // Both directions of one axis against the same object: the finding lies within
+            // the object's extent along that axis (an elongated object reaches past it on
+            // both sides), said once, at the stronger one's place.
+            let pair = opposite(&r.relation).and_then(|(opp, axis)| {
+                rels.iter()
+                    .position(|q| q.object == r.object && q.relation == opp)
+                    .map(|j| (j, axis))
+            });
+            if let Some((j, axis)) = pair {
+                merged[j] = true;
+                let q = rels[j];
+                let _ = writeln!(
+                    s,
+                    "  - {} lies alongside {}, within its {axis} extent ({} {:.2}, {} {:.2}; {})",
+                    w.individual_label(&r.subject, false),
+                    w.individual_label(&r.object, false),
+                    r.relation.trim_end_matches("_of"),
+                    r.degree,
+                    q.relation.trim_end_matches("_of"),
+                    q.degree,
+                    words::band(q.degree)
+                );
+                continue;
+            }
             let _ = writeln!(
                 s,
                 "  - {} ({:.2}, {})",

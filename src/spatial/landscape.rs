@@ -998,6 +998,12 @@ impl FastLandscape {
         if self.ox[l] == NONE {
             return 0.0;
         }
+        if (self.ox[l], self.oy[l], self.oz[l]) == (0, 0, 0) {
+            // A reference cell: 1 throughout, as the relations read it (at its centre).
+            // Measured from the cell's centre, its own voxels would alternate between 0 and
+            // a positive value along the direction, half a voxel either side.
+            return 1.0;
+        }
         let cv = [self.ox[l] as f64, self.oy[l] as f64, self.oz[l] as f64];
         // Vector (fine voxel units) from the origin cell's centre to this voxel.
         let half = (f as f64 - 1.0) / 2.0;

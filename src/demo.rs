@@ -164,7 +164,7 @@ fn write(path: &Path, bytes: &[u8]) -> Result<(), String> {
     let dir = path.parent().unwrap_or(Path::new("."));
     std::fs::create_dir_all(dir)
         .map_err(|e| format!("{}: cannot create folder: {e}", dir.display()))?;
-    crate::cli::common::write_atomic(path, bytes, &[])
+    crate::files::write_atomic(path, bytes, &[])
 }
 
 /// Loads the demo knowledge base from the copies written into `dir`.

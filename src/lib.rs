@@ -8,6 +8,7 @@ pub mod cli;
 pub mod demo;
 pub mod explain;
 pub mod facts;
+pub mod files;
 pub mod kb;
 pub mod reasoner;
 pub mod render;

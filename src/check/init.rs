@@ -96,7 +96,7 @@ pub fn scaffold(dir: &Path) -> Result<Vec<PathBuf>, CheckError> {
         .map_err(|e| CheckError(format!("{}: cannot create: {e}", dir.display())))?;
     let mut out = Vec::new();
     for (p, text) in files {
-        crate::cli::common::write_atomic(&p, text.as_bytes(), &[]).map_err(CheckError)?;
+        crate::files::write_atomic(&p, text.as_bytes(), &[]).map_err(CheckError)?;
         out.push(p);
     }
     Ok(out)

@@ -543,7 +543,7 @@ fn evaluate(
             CheckError(format!(
                 "{}: {}",
                 at(c, c.kb_line),
-                crate::cli::common::refusal_message(&qkb, &r, &c.kb)
+                crate::render::text::refusal_message(&qkb, &r, &c.kb)
             ))
         })?;
         r.limits = limits.clone();
@@ -636,7 +636,7 @@ fn evaluate(
         CheckError(format!(
             "{}: {}",
             at(c, c.kb_line),
-            crate::cli::common::refusal_message(&problem.kb, &r, &c.kb)
+            crate::render::text::refusal_message(&problem.kb, &r, &c.kb)
         ))
     })?;
     if let Some(l) = result.limit {

@@ -3,6 +3,7 @@
 use super::common::{KbOptions, LimitOptions, load_kb, reasoner};
 use crate::kb::{ClassId, KnowledgeBase};
 use crate::reasoner::classify;
+use crate::render::text::{classification_text, short_name};
 use clap::Args;
 use std::path::PathBuf;
 use std::time::Instant;
@@ -143,84 +144,4 @@ pub fn classification_json(kb: &KnowledgeBase, c: &classify::Classification) -> 
         v["warnings"] = serde_json::json!(kb.warnings);
     }
     serde_json::to_string_pretty(&v).unwrap_or_default()
-}
-
-/// The indented taxonomy.
-pub fn classification_text(
-    kb: &KnowledgeBase,
-    c: &classify::Classification,
-    classes: &[ClassId],
-) -> String {
-    use std::fmt::Write;
-    let mut s = String::new();
-    if kb.incomplete {
-        let _ = writeln!(
-            s,
-            "NOTE: something was left out while loading (see warnings); results may be incomplete."
-        );
-    }
-    if !c.consistent {
-        let _ = writeln!(
-            s,
-            "The knowledge base is INCONSISTENT: it has no model, so every class is unsatisfiable."
-        );
-        return s;
-    }
-    let short = |x: ClassId| short_name(kb.vocab.class_iri(x));
-    let tax = c.taxonomy(classes);
-    let g = &tax.graph;
-    let name = |n: petgraph::graph::NodeIndex| {
-        g[n].iter()
-            .map(|&x| short(x))
-            .collect::<Vec<_>>()
-            .join(" ≡ ")
-    };
-    let _ = writeln!(s, "owl:Thing");
-    let mut tops: Vec<_> = g
-        .node_indices()
-        .filter(|&n| {
-            g.neighbors_directed(n, petgraph::Direction::Incoming)
-                .next()
-                .is_none()
-        })
-        .collect();
-    tops.sort_by_key(|&n| name(n));
-    fn walk(
-        g: &petgraph::graph::DiGraph<Vec<ClassId>, ()>,
-        n: petgraph::graph::NodeIndex,
-        depth: usize,
-        name: &dyn Fn(petgraph::graph::NodeIndex) -> String,
-        s: &mut String,
-    ) {
-        let _ = writeln!(s, "{}{}", "  ".repeat(depth), name(n));
-        let mut kids: Vec<_> = g
-            .neighbors_directed(n, petgraph::Direction::Outgoing)
-            .collect();
-        kids.sort_by_key(|&k| name(k));
-        kids.dedup();
-        for k in kids {
-            walk(g, k, depth + 1, name, s);
-        }
-    }
-    for t in tops {
-        walk(g, t, 1, &name, &mut s);
-    }
-    if !c.unsatisfiable.is_empty() {
-        let _ = writeln!(s, "UNSATISFIABLE (equivalent to owl:Nothing):");
-        let mut u: Vec<String> = c.unsatisfiable.iter().map(|&x| short(x)).collect();
-        u.sort();
-        for x in u {
-            let _ = writeln!(s, "  ! {x}");
-        }
-    }
-    s
-}
-
-/// The fragment or last path segment of an IRI.
-pub fn short_name(iri: &str) -> String {
-    iri.rsplit(['#', '/'])
-        .next()
-        .filter(|s| !s.is_empty())
-        .unwrap_or(iri)
-        .to_string()
 }

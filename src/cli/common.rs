@@ -2,9 +2,9 @@
 //! limits from options, atomic writes.
 
 use crate::kb::{KnowledgeBase, owl};
-use crate::reasoner::{Limits, Reasoner, Refusal};
+use crate::reasoner::{Limits, Reasoner};
 use clap::Args;
-use std::path::{Path, PathBuf};
+use std::path::PathBuf;
 use std::time::{Duration, Instant};
 
 /// Options for loading ontologies, shared by the commands that read a KB.
@@ -75,61 +75,5 @@ pub fn reasoner<'kb>(kb: &'kb KnowledgeBase, files: &[PathBuf]) -> Result<Reason
     })
 }
 
-/// The message for a refused knowledge base.
-pub fn refusal_message(kb: &KnowledgeBase, r: &Refusal, files: &[PathBuf]) -> String {
-    let file = match &r.axiom {
-        Some(t) => kb
-            .sources
-            .iter()
-            .find(|s| &s.text == t)
-            .map(|s| s.file.clone()),
-        None => None,
-    }
-    .unwrap_or_else(|| {
-        files
-            .iter()
-            .map(|f| f.display().to_string())
-            .collect::<Vec<_>>()
-            .join(", ")
-    });
-    match &r.axiom {
-        Some(a) => format!(
-            "{file}: unsupported construct in axiom {a}: {}. Remove or rewrite the axiom.",
-            r.reason
-        ),
-        None => format!(
-            "{file}: {}. Remove the construct or use a reasoner for the full language.",
-            r.reason
-        ),
-    }
-}
-
-/// Writes a file atomically: a temporary file in the same folder, then a rename. Refuses to
-/// write over any of `inputs`.
-pub fn write_atomic(path: &Path, bytes: &[u8], inputs: &[PathBuf]) -> Result<(), String> {
-    let target = std::fs::canonicalize(path).ok();
-    for i in inputs {
-        if let (Some(t), Ok(ic)) = (&target, std::fs::canonicalize(i))
-            && *t == ic
-        {
-            return Err(format!(
-                "{}: refusing to overwrite an input file; choose another output path",
-                path.display()
-            ));
-        }
-    }
-    let dir = path
-        .parent()
-        .filter(|p| !p.as_os_str().is_empty())
-        .unwrap_or(Path::new("."));
-    let name = path
-        .file_name()
-        .map(|n| n.to_string_lossy().to_string())
-        .unwrap_or_else(|| "out".into());
-    let tmp = dir.join(format!(".{name}.{}.tmp", std::process::id()));
-    std::fs::write(&tmp, bytes).map_err(|e| format!("{}: cannot write: {e}", tmp.display()))?;
-    std::fs::rename(&tmp, path).map_err(|e| {
-        let _ = std::fs::remove_file(&tmp);
-        format!("{}: cannot write: {e}", path.display())
-    })
-}
+pub use crate::files::write_atomic;
+pub use crate::render::text::refusal_message;

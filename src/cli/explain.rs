@@ -3,7 +3,8 @@
 use super::common::{KbOptions, LimitOptions, load_kb, refusal_message};
 use crate::explain::case::{self, ObservationSource};
 use crate::explain::{ExplainOptions, ExplainResult, Problem, explain};
-use crate::kb::{KnowledgeBase, owl};
+use crate::kb::owl;
+use crate::render::text::{result_text, source_texts};
 use clap::Args;
 use std::path::PathBuf;
 
@@ -119,17 +120,6 @@ pub fn build_problem(args: &ExplainArgs) -> Result<Problem, i32> {
     Ok(problem)
 }
 
-/// The source texts of internal axioms, sorted and without repeats.
-pub fn source_texts(kb: &KnowledgeBase, axioms: &[usize]) -> Vec<String> {
-    let mut v: Vec<String> = axioms
-        .iter()
-        .map(|&i| kb.sources[kb.axioms[i].source].text.clone())
-        .collect();
-    v.sort();
-    v.dedup();
-    v
-}
-
 /// The contract's JSON, with our extra fields.
 pub fn result_json(p: &Problem, r: &ExplainResult) -> String {
     let kb = &p.kb;
@@ -165,71 +155,4 @@ pub fn result_json(p: &Problem, r: &ExplainResult) -> String {
         "stats": r.stats,
     });
     serde_json::to_string_pretty(&v).unwrap_or_default()
-}
-
-/// The text form.
-pub fn result_text(p: &Problem, r: &ExplainResult) -> String {
-    use std::fmt::Write;
-    let kb = &p.kb;
-    let mut s = String::new();
-    if !r.kb_consistent {
-        let _ = writeln!(
-            s,
-            "The knowledge base with the case is INCONSISTENT; nothing can be explained."
-        );
-        let _ = writeln!(s, "A minimal conflicting set of axioms:");
-        for (i, t) in source_texts(kb, &r.conflict).iter().enumerate() {
-            let _ = writeln!(s, "  {}. {t}", i + 1);
-        }
-        return s;
-    }
-    for &i in &r.suspended {
-        let _ = writeln!(
-            s,
-            "Abnormality: the case contradicts the normal-anatomy default {}; it was suspended.",
-            source_texts(kb, &[i])[0]
-        );
-    }
-    if r.already_entailed {
-        let _ = writeln!(
-            s,
-            "The knowledge base already entails the observations; nothing to explain."
-        );
-        return s;
-    }
-    if r.explanations.is_empty() {
-        let _ = writeln!(s, "No explanation up to the size bound.");
-    }
-    for (n, e) in r.explanations.iter().enumerate() {
-        let _ = writeln!(
-            s,
-            "{}. score {:.3}, degree {:.3}, size {}",
-            n + 1,
-            e.score,
-            e.degree,
-            e.size
-        );
-        for t in &e.texts {
-            let _ = writeln!(s, "     {t}");
-        }
-        if !e.justification.is_empty() {
-            let _ = writeln!(s, "   because:");
-            for t in source_texts(kb, &e.justification) {
-                let _ = writeln!(s, "     - {t}");
-            }
-        }
-    }
-    if !r.unexplained.is_empty() {
-        let _ = writeln!(s, "Unexplained:");
-        for a in &r.unexplained {
-            let _ = writeln!(s, "  {}", a.text(kb, &kb.concepts));
-        }
-    }
-    if !r.complete {
-        let _ = writeln!(
-            s,
-            "INCOMPLETE: a limit stopped the search; more explanations may exist."
-        );
-    }
-    s
 }

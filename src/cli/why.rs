@@ -4,9 +4,10 @@
 
 use super::common::{KbOptions, LimitOptions, load_kb, refusal_message};
 use crate::explain::justify::minimal_hitting_sets;
-use crate::explain::why::{Items, Justified, Target, UnsatSplit, justify, targets_of, unsat_split};
-use crate::kb::{ClassId, KnowledgeBase, owl};
-use crate::reasoner::{Limits, Reasoner};
+use crate::explain::why::{Items, Target, targets_of, why_report};
+use crate::kb::{ClassId, owl};
+use crate::reasoner::Reasoner;
+use crate::render::text::why_text;
 use clap::Args;
 use std::path::PathBuf;
 
@@ -160,128 +161,4 @@ pub fn run(args: WhyArgs) -> i32 {
         return super::EXIT_LIMIT;
     }
     super::EXIT_OK
-}
-
-/// Justifications for the given targets; without targets, for every root unsatisfiable
-/// class (or the inconsistency).
-pub fn why_report(
-    kb: &KnowledgeBase,
-    items: &Items,
-    mut targets: Vec<(String, Vec<Target>)>,
-    limits: &Limits,
-    max_nodes: usize,
-) -> WhyReport {
-    let mut split = UnsatSplit::default();
-    if targets.is_empty() {
-        split = unsat_split(kb, items, limits);
-        if split.inconsistent {
-            targets.push((
-                "the knowledge base is inconsistent".into(),
-                vec![Target::Inconsistent],
-            ));
-        }
-        for (c, a) in &split.roots {
-            targets.push((
-                format!("unsatisfiable <{}>", kb.vocab.class_iri(*c)),
-                vec![Target::Unsat(*a)],
-            ));
-        }
-    }
-    let results = targets
-        .iter()
-        .map(|(name, ts)| justify(kb, items, name, ts, limits, max_nodes))
-        .collect();
-    WhyReport { results, split }
-}
-
-/// Justifications of one or more targets and, when every unsatisfiable class was asked
-/// for, the root/derived split.
-#[derive(Clone, Debug, Default)]
-pub struct WhyReport {
-    /// One entry per target.
-    pub results: Vec<Justified>,
-    /// Root and derived unsatisfiable classes.
-    pub split: UnsatSplit,
-}
-
-impl WhyReport {
-    /// Whether a limit stopped any part of the search.
-    pub fn incomplete(&self) -> bool {
-        self.split.limit.is_some() || self.results.iter().any(|r| !r.complete)
-    }
-}
-
-/// The text form: justifications and/or repairs (the minimal hitting sets of the
-/// justifications). `name` turns a full IRI into what is shown.
-pub fn why_text(
-    kb: &KnowledgeBase,
-    report: &WhyReport,
-    listing: bool,
-    justifications: bool,
-    repairs: bool,
-    name: &dyn Fn(&str) -> String,
-) -> String {
-    use std::fmt::Write;
-    let mut s = String::new();
-    let text_of = |i: usize| kb.sources[i].text.clone();
-    if listing {
-        let names = |v: Vec<&str>| v.into_iter().map(name).collect::<Vec<_>>().join(", ");
-        let roots: Vec<&str> = report
-            .split
-            .roots
-            .iter()
-            .map(|(c, _)| kb.vocab.class_iri(*c))
-            .collect();
-        let derived: Vec<&str> = report
-            .split
-            .derived
-            .iter()
-            .map(|c| kb.vocab.class_iri(*c))
-            .collect();
-        if roots.is_empty() && derived.is_empty() && report.results.is_empty() {
-            let _ = writeln!(
-                s,
-                "Every class is satisfiable and the knowledge base is consistent."
-            );
-        }
-        if !roots.is_empty() {
-            let _ = writeln!(s, "Root unsatisfiable classes: {}", names(roots));
-        }
-        if !derived.is_empty() {
-            let _ = writeln!(
-                s,
-                "Derived unsatisfiable classes (they follow from a root one): {}",
-                names(derived)
-            );
-        }
-    }
-    for r in &report.results {
-        let _ = writeln!(s, "Why {}:", r.target);
-        if r.justifications.is_empty() {
-            let _ = writeln!(s, "  not entailed, so nothing to justify.");
-        }
-        if justifications {
-            for (n, j) in r.justifications.iter().enumerate() {
-                let _ = writeln!(s, "  Justification {}:", n + 1);
-                for (k, &i) in j.iter().enumerate() {
-                    let _ = writeln!(s, "    {}. {}", k + 1, text_of(i));
-                }
-            }
-        }
-        let reps = minimal_hitting_sets(&r.justifications);
-        if repairs && !reps.is_empty() {
-            let _ = writeln!(s, "  Minimal repairs (remove all axioms of one line):");
-            for rep in reps {
-                let _ = writeln!(
-                    s,
-                    "    - {}",
-                    rep.iter()
-                        .map(|&i| text_of(i))
-                        .collect::<Vec<_>>()
-                        .join("  AND  ")
-                );
-            }
-        }
-    }
-    s
 }

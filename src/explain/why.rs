@@ -302,3 +302,52 @@ pub fn laconic_forms(
     }
     Ok(out)
 }
+
+/// Justifications for the given targets; without targets, for every root unsatisfiable
+/// class (or the inconsistency).
+pub fn why_report(
+    kb: &KnowledgeBase,
+    items: &Items,
+    mut targets: Vec<(String, Vec<Target>)>,
+    limits: &Limits,
+    max_nodes: usize,
+) -> WhyReport {
+    let mut split = UnsatSplit::default();
+    if targets.is_empty() {
+        split = unsat_split(kb, items, limits);
+        if split.inconsistent {
+            targets.push((
+                "the knowledge base is inconsistent".into(),
+                vec![Target::Inconsistent],
+            ));
+        }
+        for (c, a) in &split.roots {
+            targets.push((
+                format!("unsatisfiable <{}>", kb.vocab.class_iri(*c)),
+                vec![Target::Unsat(*a)],
+            ));
+        }
+    }
+    let results = targets
+        .iter()
+        .map(|(name, ts)| justify(kb, items, name, ts, limits, max_nodes))
+        .collect();
+    WhyReport { results, split }
+}
+
+/// Justifications of one or more targets and, when every unsatisfiable class was asked
+/// for, the root/derived split.
+#[derive(Clone, Debug, Default)]
+pub struct WhyReport {
+    /// One entry per target.
+    pub results: Vec<Justified>,
+    /// Root and derived unsatisfiable classes.
+    pub split: UnsatSplit,
+}
+
+impl WhyReport {
+    /// Whether a limit stopped any part of the search.
+    pub fn incomplete(&self) -> bool {
+        self.split.limit.is_some() || self.results.iter().any(|r| !r.complete)
+    }
+}

@@ -4,6 +4,7 @@
 pub mod fhir;
 pub mod html;
 pub mod readability;
+pub mod text;
 pub mod words;
 
 use crate::explain::{Assertion, ExplainResult, Problem};

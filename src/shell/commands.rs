@@ -3,14 +3,14 @@
 use super::names::{Kind, fragment};
 use super::syntax::{self, Statement};
 use super::{Edit, Session, ShellError, apply, same_file, source_degree};
-use crate::cli::classify::classification_text;
-use crate::cli::why::{WhyReport, why_report, why_text};
 use crate::explain::case::{ObservationSource, build_problem};
 use crate::explain::why::{Items, Target, all_entailed, targets_of};
+use crate::explain::why::{WhyReport, why_report};
 use crate::explain::{ExplainOptions, explain};
 use crate::kb::owl::{self, DocumentEdit};
 use crate::kb::{Axiom, ClassId, Concept, ConceptId, KbError, KnowledgeBase, RoleId};
 use crate::reasoner::{Answer, Classification, Reasoner, classify, realise};
+use crate::render::text::{classification_text, why_text};
 use std::fmt::Write;
 use std::ops::Range;
 use std::path::PathBuf;
@@ -1407,7 +1407,7 @@ fn explain_cmd(s: &mut Session, l: &Line) -> Result<String, ShellError> {
     let (problem, warnings) = build_problem(&s.kb, source, abducibles.as_deref(), &s.load)
         .map_err(|m| l.err(m, l.off))?;
     let result = explain(&problem, &eo).map_err(|r| {
-        ShellError::new(crate::cli::common::refusal_message(
+        ShellError::new(crate::render::text::refusal_message(
             &problem.kb,
             &r,
             &s.files,
@@ -1417,7 +1417,7 @@ fn explain_cmd(s: &mut Session, l: &Line) -> Result<String, ShellError> {
     for w in warnings {
         let _ = writeln!(out, "warning: {w}");
     }
-    out.push_str(&s.abbreviate(&crate::cli::explain::result_text(&problem, &result)));
+    out.push_str(&s.abbreviate(&crate::render::text::result_text(&problem, &result)));
     if let Some(lim) = result.limit {
         let _ = writeln!(out, "stopped early: {lim}; the list may be incomplete");
     }
@@ -1736,14 +1736,14 @@ fn save(s: &mut Session, l: &Line) -> Result<String, ShellError> {
         let mut bak = target.clone().into_os_string();
         bak.push(".bak");
         let bak = PathBuf::from(bak);
-        crate::cli::common::write_atomic(&bak, &old, &[]).map_err(|e| {
+        crate::files::write_atomic(&bak, &old, &[]).map_err(|e| {
             ShellError::new(format!(
                 "not saved: backup failed: {e}; your edits are kept"
             ))
         })?;
         backup = Some(bak);
     }
-    crate::cli::common::write_atomic(&target, text.as_bytes(), &[])
+    crate::files::write_atomic(&target, text.as_bytes(), &[])
         .map_err(|e| ShellError::new(format!("not saved: {e}; your edits are kept")))?;
     // Round trip: the saved file must load back with the same axioms and annotations.
     let check = owl::load(std::slice::from_ref(&target), &s.load)

@@ -359,7 +359,7 @@ impl Session {
         kb.signature_classes = (0..kb.vocab.classes.len() as u32).map(ClassId).collect();
         if let Err(r) = Reasoner::new(&kb) {
             let files: Vec<PathBuf> = self.files.clone();
-            return Err(ShellError::new(crate::cli::common::refusal_message(
+            return Err(ShellError::new(crate::render::text::refusal_message(
                 &kb, &r, &files,
             )));
         }
@@ -385,7 +385,7 @@ impl Session {
     /// unsupported are refused).
     fn reasoner(&self) -> Result<Reasoner<'_>, ShellError> {
         let mut r = Reasoner::new(&self.kb).map_err(|r| {
-            ShellError::new(crate::cli::common::refusal_message(
+            ShellError::new(crate::render::text::refusal_message(
                 &self.kb,
                 &r,
                 &self.files,

@@ -293,11 +293,6 @@ impl CellLayout {
         }
     }
 
-    /// Slots per slice (cells, padding and lane room).
-    pub fn slots_per_slice(&self) -> usize {
-        self.size
-    }
-
     /// The slot of cell (i, j, k), k counting slices.
     #[inline(always)]
     pub fn cell(&self, i: usize, j: usize, k: usize) -> usize {
@@ -904,11 +899,6 @@ impl FastLandscape {
             c[a] = q as usize / f;
         }
         Some(self.layout.cell(c[0], c[1], c[2]))
-    }
-
-    /// The layout of the state: cells are named by their slot in it.
-    pub fn layout(&self) -> &CellLayout {
-        &self.layout
     }
 
     /// The degree of a cell (its slot, see [`FastLandscape::cell_of`]), read at its centre

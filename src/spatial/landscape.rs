@@ -156,7 +156,7 @@ pub fn exact_degree(x_world: [f64; 3], reference_world: &[[f64; 3]], d: [f64; 3]
 /// offers them on request (Linux transparent huge pages in `madvise` mode): a landscape's
 /// state runs to tens of megabytes, and faulting it in 4 KiB pages costs more than a tenth
 /// of its propagation time.
-pub(crate) fn big_vec<T: Copy>(n: usize, value: T) -> Vec<T> {
+fn big_vec<T: Copy>(n: usize, value: T) -> Vec<T> {
     let mut v: Vec<T> = Vec::with_capacity(n);
     #[cfg(target_os = "linux")]
     {

@@ -1,7 +1,7 @@
 //! `wherefore check`: regression cases for KB edits (the library part is `crate::check`).
 
-use super::common::write_atomic;
 use crate::check::{self, Status, baseline, diff};
+use crate::files::write_atomic;
 use clap::Args;
 use std::io::{IsTerminal, Write};
 use std::path::PathBuf;

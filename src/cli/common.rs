@@ -3,6 +3,7 @@
 
 use crate::kb::{KnowledgeBase, owl};
 use crate::reasoner::{Limits, Reasoner};
+use crate::render::text::refusal_message;
 use clap::Args;
 use std::path::PathBuf;
 use std::time::{Duration, Instant};
@@ -74,6 +75,3 @@ pub fn reasoner<'kb>(kb: &'kb KnowledgeBase, files: &[PathBuf]) -> Result<Reason
         super::EXIT_BAD_INPUT
     })
 }
-
-pub use crate::files::write_atomic;
-pub use crate::render::text::refusal_message;

@@ -1,10 +1,10 @@
 //! `wherefore explain`: abduction from observations in an ontology file.
 
-use super::common::{KbOptions, LimitOptions, load_kb, refusal_message};
+use super::common::{KbOptions, LimitOptions, load_kb};
 use crate::explain::case::{self, ObservationSource};
 use crate::explain::{ExplainOptions, ExplainResult, Problem, explain};
 use crate::kb::owl;
-use crate::render::text::{result_text, source_texts};
+use crate::render::text::{refusal_message, result_text, source_texts};
 use clap::Args;
 use std::path::PathBuf;
 

@@ -1,6 +1,7 @@
 //! `wherefore report`: report drafts for one case (facts file) or a batch (manifest).
 
-use super::common::{KbOptions, load_kb, write_atomic};
+use super::common::{KbOptions, load_kb};
+use crate::files::write_atomic;
 use crate::kb::KnowledgeBase;
 use crate::render;
 use clap::{Args, ValueEnum};

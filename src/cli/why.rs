@@ -2,12 +2,12 @@
 //! inconsistency of the KB (Kalyanpur et al. 2007: black-box QuickXplain plus a hitting-set
 //! tree), with the minimal repairs (the minimal hitting sets of the justifications).
 
-use super::common::{KbOptions, LimitOptions, load_kb, refusal_message};
+use super::common::{KbOptions, LimitOptions, load_kb};
 use crate::explain::justify::minimal_hitting_sets;
 use crate::explain::why::{Items, Target, targets_of, why_report};
 use crate::kb::{ClassId, owl};
 use crate::reasoner::Reasoner;
-use crate::render::text::why_text;
+use crate::render::text::{refusal_message, why_text};
 use clap::Args;
 use std::path::PathBuf;
 

@@ -238,6 +238,23 @@ pub fn load_into(
     Ok(())
 }
 
+/// Splits axioms written in functional syntax into their `Prefix(...)` lines and the rest,
+/// so that the rest can be wrapped in an `Ontology(...)` after the prefixes.
+fn split_prefixes(text: &str) -> (String, String) {
+    let mut prefixes = String::new();
+    let mut body = String::new();
+    for line in text.lines() {
+        let part = if line.trim_start().starts_with("Prefix(") {
+            &mut prefixes
+        } else {
+            &mut body
+        };
+        part.push_str(line);
+        part.push('\n');
+    }
+    (prefixes, body)
+}
+
 /// Parses axioms written in OWL 2 functional syntax (without the `Ontology(...)` wrapper;
 /// `Prefix` declarations may precede them) and adds them to the knowledge base. `name`
 /// stands for the file in messages. Returns the range of new axiom indices.
@@ -246,17 +263,7 @@ pub fn load_axioms_text(
     name: &str,
     text: &str,
 ) -> Result<std::ops::Range<usize>, KbError> {
-    let mut prefixes = String::new();
-    let mut body = String::new();
-    for line in text.lines() {
-        if line.trim_start().starts_with("Prefix(") {
-            prefixes.push_str(line);
-            prefixes.push('\n');
-        } else {
-            body.push_str(line);
-            body.push('\n');
-        }
-    }
+    let (prefixes, body) = split_prefixes(text);
     let header = format!("{prefixes}Ontology(<urn:wherefore:query>\n");
     let doc = format!("{header}{body})\n");
     let (doc, shift) = with_standard_prefixes(&doc);
@@ -529,17 +536,7 @@ pub fn write_merged(
     for e in edits {
         match e {
             DocumentEdit::Add(text) => {
-                let mut head = String::new();
-                let mut body = String::new();
-                for line in text.lines() {
-                    if line.trim_start().starts_with("Prefix(") {
-                        head.push_str(line);
-                        head.push('\n');
-                    } else {
-                        body.push_str(line);
-                        body.push('\n');
-                    }
-                }
+                let (head, body) = split_prefixes(text);
                 let doc = format!("{head}Ontology(<urn:wherefore:edit>\n{body})\n");
                 let parsed = parse_bytes_strict("session edit".into(), doc.into_bytes())?;
                 for ac in parsed.components {

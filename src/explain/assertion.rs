@@ -122,5 +122,12 @@ pub fn concept_ofn(
                 ranges.get(*d)
             )
         }
+        Concept::HasSelf(r) => format!("ObjectHasSelf({})", role_ofn(kb, *r)),
+        Concept::NotSelf(r) => format!("ObjectComplementOf(ObjectHasSelf({}))", role_ofn(kb, *r)),
+        // Automaton states exist only inside the tableau; the restriction they came from.
+        Concept::AllPath(r, _, x) => format!("ObjectAllValuesFrom({} {})", role_ofn(kb, *r), f(*x)),
+        Concept::SomePath(r, _, x) => {
+            format!("ObjectSomeValuesFrom({} {})", role_ofn(kb, *r), f(*x))
+        }
     }
 }

@@ -53,6 +53,17 @@ pub enum Concept {
     DataSome(DataPropId, DataRangeId),
     /// ∀p.D for a data property p and a data range D.
     DataAll(DataPropId, DataRangeId),
+    /// ∃r.Self: the element is r-related to itself.
+    HasSelf(RoleId),
+    /// ¬∃r.Self.
+    NotSelf(RoleId),
+    /// ∀B_r(q).C: C holds at the end of every path that leads the role automaton of r from
+    /// state q to a final state (Horrocks, Kutz & Sattler 2006, §3). Made by the tableau from
+    /// ∀r.C when r has property chains; never written by a loader.
+    AllPath(RoleId, u32, ConceptId),
+    /// The negation partner of [`Concept::AllPath`], which every concept needs; the tableau
+    /// never puts it in a label.
+    SomePath(RoleId, u32, ConceptId),
 }
 
 /// The store of all concepts of a knowledge base, with negations precomputed.
@@ -111,7 +122,9 @@ impl ConceptStore {
             Concept::Some(_, f)
             | Concept::All(_, f)
             | Concept::AtLeast(_, _, f)
-            | Concept::AtMost(_, _, f) => std::slice::from_ref(f),
+            | Concept::AtMost(_, _, f)
+            | Concept::AllPath(_, _, f)
+            | Concept::SomePath(_, _, f) => std::slice::from_ref(f),
             _ => &[],
         }
     }
@@ -170,6 +183,20 @@ impl ConceptStore {
         let nc = self.not(c);
         let s = self.some(r, nc);
         self.not(s)
+    }
+
+    /// ∃r.Self.
+    pub fn has_self(&mut self, r: RoleId) -> ConceptId {
+        self.pair(Concept::HasSelf(r), Concept::NotSelf(r))
+    }
+
+    /// ∀B_r(q).C, the automaton form of a universal restriction (see [`Concept::AllPath`]).
+    pub fn all_path(&mut self, r: RoleId, state: u32, c: ConceptId) -> ConceptId {
+        let nc = self.not(c);
+        self.pair(
+            Concept::AllPath(r, state, c),
+            Concept::SomePath(r, state, nc),
+        )
     }
 
     /// ≥n r.C.

@@ -145,6 +145,19 @@ pub enum Axiom {
     SubRole(RoleId, RoleId),
     /// r is transitive.
     Transitive(RoleId),
+    /// r₁ ∘ … ∘ rₙ ⊑ s (a property chain, n ≥ 2).
+    SubRoleChain(Vec<RoleId>, RoleId),
+    /// r is reflexive (⊤ ⊑ ∃r.Self).
+    Reflexive(RoleId),
+    /// r is irreflexive (⊤ ⊑ ¬∃r.Self).
+    Irreflexive(RoleId),
+    /// r is asymmetric (r and r⁻ are disjoint).
+    Asymmetric(RoleId),
+    /// The roles are pairwise disjoint.
+    DisjointRoles(Vec<RoleId>),
+    /// HasKey(C (r…) (p…)) with the DL-safe semantics: two named individuals in C with the
+    /// same named r-fillers and the same p-values are equal.
+    HasKey(ConceptId, Vec<RoleId>, Vec<DataPropId>),
     /// r is functional (⊤ ⊑ ≤1 r.⊤).
     Functional(RoleId),
     /// Domain of r: ∃r.⊤ ⊑ C.

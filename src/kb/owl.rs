@@ -10,7 +10,7 @@ use horned_owl::io::{ParserConfiguration, ResourceType};
 use horned_owl::model::{
     AnnotatedComponent, AnnotationSubject, ArcStr, Build, ClassExpression as CE, Component,
     DataRange as HDataRange, Individual, Literal, ObjectPropertyExpression as OPE,
-    SubObjectPropertyExpression,
+    PropertyExpression, SubObjectPropertyExpression,
 };
 use horned_owl::ontology::set::SetOntology;
 use horned_owl::vocab::Facet;
@@ -1106,20 +1106,63 @@ impl Converter<'_> {
                 Ok(true)
             }
             C::SubObjectPropertyOf(ax) => {
-                let sup = self.role(&ax.sup);
+                // The top property contains every property and the bottom property is
+                // contained in every one (OWL 2 Direct Semantics, §2.2.1): tautologies.
+                let chain_has_bottom = match &ax.sub {
+                    SubObjectPropertyExpression::ObjectPropertyExpression(e) => {
+                        special_property(e) == Some(false)
+                    }
+                    SubObjectPropertyExpression::ObjectPropertyChain(ch) => {
+                        ch.iter().any(|e| special_property(e) == Some(false))
+                    }
+                };
+                if special_property(&ax.sup) == Some(true) || chain_has_bottom {
+                    return Ok(true);
+                }
+                if special_property(&ax.sup) == Some(false)
+                    && let SubObjectPropertyExpression::ObjectPropertyExpression(e) = &ax.sub
+                {
+                    // r ⊑ ⊥: r is empty, so nothing has an r-successor.
+                    let r = self.role(e)?;
+                    self.kb.push(Axiom::Domain(r, ConceptId::BOTTOM), src);
+                    return Ok(true);
+                }
+                let sup = self.role(&ax.sup)?;
                 match &ax.sub {
                     SubObjectPropertyExpression::ObjectPropertyExpression(e) => {
-                        let sub = self.role(e);
+                        let sub = self.role(e)?;
                         self.kb.push(Axiom::SubRole(sub, sup), src);
                         Ok(true)
                     }
-                    SubObjectPropertyExpression::ObjectPropertyChain(_) => {
-                        Err("property chains are outside SHIQ".into())
+                    SubObjectPropertyExpression::ObjectPropertyChain(chain) => {
+                        let rs: Vec<RoleId> = chain
+                            .iter()
+                            .map(|e| self.role(e))
+                            .collect::<Conv<Vec<_>>>()?;
+                        match rs.as_slice() {
+                            [] => Err("an empty property chain".into()),
+                            [r] => {
+                                self.kb.push(Axiom::SubRole(*r, sup), src);
+                                Ok(true)
+                            }
+                            // r ∘ r ⊑ r is transitivity, and r⁻ ∘ r⁻ ⊑ r⁻ the same.
+                            [a, b] if *a == sup && *b == sup => {
+                                self.kb.push(Axiom::Transitive(sup), src);
+                                Ok(true)
+                            }
+                            _ => {
+                                self.kb.push(Axiom::SubRoleChain(rs, sup), src);
+                                Ok(true)
+                            }
+                        }
                     }
                 }
             }
             C::EquivalentObjectProperties(ax) => {
-                let rs: Vec<RoleId> = ax.0.iter().map(|e| self.role(e)).collect();
+                let rs: Vec<RoleId> =
+                    ax.0.iter()
+                        .map(|e| self.role(e))
+                        .collect::<Conv<Vec<_>>>()?;
                 for w in rs.windows(2) {
                     self.kb.push(Axiom::SubRole(w[0], w[1]), src);
                     self.kb.push(Axiom::SubRole(w[1], w[0]), src);
@@ -1133,45 +1176,75 @@ impl Converter<'_> {
                 self.kb.push(Axiom::SubRole(q.inverse(), p), src);
                 Ok(true)
             }
+            C::ObjectPropertyDomain(ax) if special_property(&ax.ope).is_some() => {
+                // The bottom property's domain is empty; the top property's is everything.
+                if special_property(&ax.ope) == Some(true) {
+                    let c = self.ce(&ax.ce)?;
+                    self.kb.push(Axiom::SubClass(ConceptId::TOP, c), src);
+                }
+                Ok(true)
+            }
+            C::ObjectPropertyRange(ax) if special_property(&ax.ope).is_some() => {
+                if special_property(&ax.ope) == Some(true) {
+                    let c = self.ce(&ax.ce)?;
+                    self.kb.push(Axiom::SubClass(ConceptId::TOP, c), src);
+                }
+                Ok(true)
+            }
             C::ObjectPropertyDomain(ax) => {
-                let r = self.role(&ax.ope);
+                let r = self.role(&ax.ope)?;
                 let c = self.ce(&ax.ce)?;
                 self.kb.push(Axiom::Domain(r, c), src);
                 Ok(true)
             }
             C::ObjectPropertyRange(ax) => {
-                let r = self.role(&ax.ope);
+                let r = self.role(&ax.ope)?;
                 let c = self.ce(&ax.ce)?;
                 self.kb.push(Axiom::Domain(r.inverse(), c), src);
                 Ok(true)
             }
             C::FunctionalObjectProperty(ax) => {
-                let r = self.role(&ax.0);
+                let r = self.role(&ax.0)?;
                 self.kb.push(Axiom::Functional(r), src);
                 Ok(true)
             }
             C::InverseFunctionalObjectProperty(ax) => {
-                let r = self.role(&ax.0);
+                let r = self.role(&ax.0)?;
                 self.kb.push(Axiom::Functional(r.inverse()), src);
                 Ok(true)
             }
             C::SymmetricObjectProperty(ax) => {
-                let r = self.role(&ax.0);
+                let r = self.role(&ax.0)?;
                 self.kb.push(Axiom::SubRole(r, r.inverse()), src);
                 Ok(true)
             }
             C::TransitiveObjectProperty(ax) => {
-                let r = self.role(&ax.0);
+                let r = self.role(&ax.0)?;
                 self.kb.push(Axiom::Transitive(r), src);
                 Ok(true)
             }
-            C::ReflexiveObjectProperty(_) => Err("reflexive properties are outside SHIQ".into()),
-            C::IrreflexiveObjectProperty(_) => {
-                Err("irreflexive properties are outside SHIQ".into())
+            C::ReflexiveObjectProperty(ax) => {
+                let r = self.role(&ax.0)?;
+                self.kb.push(Axiom::Reflexive(r), src);
+                Ok(true)
             }
-            C::AsymmetricObjectProperty(_) => Err("asymmetric properties are outside SHIQ".into()),
-            C::DisjointObjectProperties(_) => {
-                Err("disjoint object properties are outside SHIQ".into())
+            C::IrreflexiveObjectProperty(ax) => {
+                let r = self.role(&ax.0)?;
+                self.kb.push(Axiom::Irreflexive(r), src);
+                Ok(true)
+            }
+            C::AsymmetricObjectProperty(ax) => {
+                let r = self.role(&ax.0)?;
+                self.kb.push(Axiom::Asymmetric(r), src);
+                Ok(true)
+            }
+            C::DisjointObjectProperties(ax) => {
+                let rs: Vec<RoleId> =
+                    ax.0.iter()
+                        .map(|e| self.role(e))
+                        .collect::<Conv<Vec<_>>>()?;
+                self.kb.push(Axiom::DisjointRoles(rs), src);
+                Ok(true)
             }
             C::SubDataPropertyOf(ax) => {
                 let a = self.kb.vocab.data_prop(&ax.sub.0);
@@ -1209,7 +1282,26 @@ impl Converter<'_> {
                 Ok(true)
             }
             C::DatatypeDefinition(_) => Err("datatype definitions are not supported".into()),
-            C::HasKey(_) => Err("keys are outside SHIQ".into()),
+            C::HasKey(ax) => {
+                let c = self.ce(&ax.ce)?;
+                let mut roles = Vec::new();
+                let mut data = Vec::new();
+                for pe in &ax.vpe {
+                    match pe {
+                        PropertyExpression::ObjectPropertyExpression(e) => {
+                            roles.push(self.role(e)?)
+                        }
+                        PropertyExpression::DataProperty(d) => {
+                            data.push(self.kb.vocab.data_prop(&d.0))
+                        }
+                        PropertyExpression::AnnotationProperty(_) => {
+                            return Err("a key on an annotation property".into());
+                        }
+                    }
+                }
+                self.kb.push(Axiom::HasKey(c, roles, data), src);
+                Ok(true)
+            }
             C::SameIndividual(ax) => {
                 let is: Vec<_> = ax.0.iter().map(|i| self.individual(i)).collect();
                 self.kb.push(Axiom::Same(is), src);
@@ -1225,15 +1317,34 @@ impl Converter<'_> {
                 self.assert_class(&ax.ce, a, src)?;
                 Ok(true)
             }
+            C::ObjectPropertyAssertion(ax) if special_property(&ax.ope).is_some() => {
+                // top(a, b) always holds; bottom(a, b) never does.
+                let a = self.individual(&ax.from);
+                self.individual(&ax.to);
+                if special_property(&ax.ope) == Some(false) {
+                    self.kb
+                        .push(Axiom::ClassAssertion(ConceptId::BOTTOM, a), src);
+                }
+                Ok(true)
+            }
+            C::NegativeObjectPropertyAssertion(ax) if special_property(&ax.ope).is_some() => {
+                let a = self.individual(&ax.from);
+                self.individual(&ax.to);
+                if special_property(&ax.ope) == Some(true) {
+                    self.kb
+                        .push(Axiom::ClassAssertion(ConceptId::BOTTOM, a), src);
+                }
+                Ok(true)
+            }
             C::ObjectPropertyAssertion(ax) => {
-                let r = self.role(&ax.ope);
+                let r = self.role(&ax.ope)?;
                 let a = self.individual(&ax.from);
                 let b = self.individual(&ax.to);
                 self.kb.push(Axiom::RoleAssertion(r, a, b), src);
                 Ok(true)
             }
             C::NegativeObjectPropertyAssertion(ax) => {
-                let r = self.role(&ax.ope);
+                let r = self.role(&ax.ope)?;
                 let a = self.individual(&ax.from);
                 let b = self.individual(&ax.to);
                 self.kb.push(Axiom::NegativeRoleAssertion(r, a, b), src);
@@ -1270,7 +1381,7 @@ impl Converter<'_> {
                 Ok(())
             }
             CE::ObjectHasValue { ope, i } => {
-                let r = self.role(ope);
+                let r = self.role(ope)?;
                 let b = self.individual(i);
                 self.kb.push(Axiom::RoleAssertion(r, a, b), src);
                 Ok(())
@@ -1282,7 +1393,7 @@ impl Converter<'_> {
             }
             CE::ObjectComplementOf(inner) => match inner.as_ref() {
                 CE::ObjectHasValue { ope, i } => {
-                    let r = self.role(ope);
+                    let r = self.role(ope)?;
                     let b = self.individual(i);
                     self.kb.push(Axiom::NegativeRoleAssertion(r, a, b), src);
                     Ok(())
@@ -1319,11 +1430,23 @@ impl Converter<'_> {
         self.kb.concepts.atom(c)
     }
 
-    fn role(&mut self, e: &OPE<ArcStr>) -> RoleId {
-        match e {
+    /// The role of a property expression; the top and bottom properties are refused here
+    /// (the axioms where they are tautologies or contradictions are read before).
+    fn role(&mut self, e: &OPE<ArcStr>) -> Conv<RoleId> {
+        if let Some(top) = special_property(e) {
+            let name = if top {
+                "topObjectProperty"
+            } else {
+                "bottomObjectProperty"
+            };
+            return Err(format!(
+                "owl:{name} is supported only where it makes the axiom trivially true or false (sub- and super-property, assertions, bottom inside restrictions); rewrite the axiom without it"
+            ));
+        }
+        Ok(match e {
             OPE::ObjectProperty(p) => RoleId::named(self.kb.vocab.prop(&p.0)),
             OPE::InverseObjectProperty(p) => RoleId::named(self.kb.vocab.prop(&p.0)).inverse(),
-        }
+        })
     }
 
     fn individual(&mut self, i: &Individual<ArcStr>) -> IndividualId {
@@ -1352,6 +1475,9 @@ impl Converter<'_> {
 
     /// Translates a class expression into a concept in NNF.
     fn ce(&mut self, e: &CE<ArcStr>) -> Conv<ConceptId> {
+        if let Some(c) = special_restriction(e) {
+            return Ok(c);
+        }
         Ok(match e {
             CE::Class(c) => self.class_concept(&c.0),
             CE::ObjectIntersectionOf(xs) => {
@@ -1381,35 +1507,40 @@ impl Converter<'_> {
                 self.kb.concepts.or(v)
             }
             CE::ObjectSomeValuesFrom { ope, bce } => {
-                let r = self.role(ope);
+                let r = self.role(ope)?;
                 let c = self.ce(bce)?;
                 self.kb.concepts.some(r, c)
             }
             CE::ObjectAllValuesFrom { ope, bce } => {
-                let r = self.role(ope);
+                let r = self.role(ope)?;
                 let c = self.ce(bce)?;
                 self.kb.concepts.all(r, c)
             }
             CE::ObjectHasValue { ope, i } => {
                 self.kb.tbox_nominals = true;
-                let r = self.role(ope);
+                let r = self.role(ope)?;
                 let a = self.individual(i);
                 let n = self.kb.concepts.nominal(a);
                 self.kb.concepts.some(r, n)
             }
-            CE::ObjectHasSelf(_) => return Err("self restrictions are outside SHIQ".into()),
+            CE::ObjectHasSelf(p) => {
+                // ∃r⁻.Self and ∃r.Self hold of the same elements.
+                let r = self.role(p)?;
+                let r = if r.is_inverse() { r.inverse() } else { r };
+                self.kb.concepts.has_self(r)
+            }
             CE::ObjectMinCardinality { n, ope, bce } => {
-                let r = self.role(ope);
+                let r = self.role(ope)?;
                 let c = self.ce(bce)?;
                 self.kb.concepts.at_least(*n, r, c)
             }
             CE::ObjectMaxCardinality { n, ope, bce } => {
-                let r = self.role(ope);
+                let r = self.role(ope)?;
                 let c = self.ce(bce)?;
                 self.kb.concepts.at_most(*n, r, c)
             }
             CE::ObjectExactCardinality { n, ope, bce } => {
-                let r = self.role(ope);
+                let r = self.role(ope)?;
                 let c = self.ce(bce)?;
                 let a = self.kb.concepts.at_least(*n, r, c);
                 let b = self.kb.concepts.at_most(*n, r, c);
@@ -1633,6 +1764,51 @@ fn literal_value(l: &Literal<ArcStr>) -> Conv<(Space, f64)> {
         },
     };
     Ok((space, v))
+}
+
+/// The value of a restriction on the bottom property (no element has a successor) or of a
+/// self restriction on the top property (every element is related to itself), which are ⊤ or
+/// ⊥ whatever the filler.
+fn special_restriction(e: &CE<ArcStr>) -> Option<ConceptId> {
+    let (ope, value) = match e {
+        CE::ObjectSomeValuesFrom { ope, .. } | CE::ObjectHasValue { ope, .. } => {
+            (ope, ConceptId::BOTTOM)
+        }
+        CE::ObjectAllValuesFrom { ope, .. } | CE::ObjectMaxCardinality { ope, .. } => {
+            (ope, ConceptId::TOP)
+        }
+        CE::ObjectMinCardinality { n, ope, .. } | CE::ObjectExactCardinality { n, ope, .. } => (
+            ope,
+            if *n == 0 {
+                ConceptId::TOP
+            } else {
+                ConceptId::BOTTOM
+            },
+        ),
+        CE::ObjectHasSelf(ope) => {
+            return match special_property(ope)? {
+                true => Some(ConceptId::TOP),
+                false => Some(ConceptId::BOTTOM),
+            };
+        }
+        _ => return None,
+    };
+    (!special_property(ope)?).then_some(value)
+}
+
+/// Whether a property expression is owl:topObjectProperty (`Some(true)`) or
+/// owl:bottomObjectProperty (`Some(false)`), inverses included (both are symmetric).
+fn special_property(e: &OPE<ArcStr>) -> Option<bool> {
+    let iri = match e {
+        OPE::ObjectProperty(p) | OPE::InverseObjectProperty(p) => p.0.to_string(),
+    };
+    if iri == format!("{OWL}topObjectProperty") {
+        Some(true)
+    } else if iri == format!("{OWL}bottomObjectProperty") {
+        Some(false)
+    } else {
+        None
+    }
 }
 
 fn annotation_text(v: &horned_owl::model::AnnotationValue<ArcStr>) -> (String, String) {

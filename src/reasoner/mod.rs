@@ -4,6 +4,7 @@
 //! Every answer is [`Answer::Yes`], [`Answer::No`] or [`Answer::Unknown`] with the limit that
 //! stopped the search; the reasoner never guesses.
 
+pub mod automata;
 pub mod cache;
 pub mod classify;
 pub mod depset;

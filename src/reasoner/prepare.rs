@@ -2,6 +2,7 @@
 //! lazily unfolded atoms and roles (DL Handbook ch. 9, Horrocks 2003, §9.4), and the
 //! internalised remainder.
 
+use super::automata::{Builder, RoleAutomaton, RoleBox};
 use crate::kb::{
     Axiom, Concept, ConceptId, ConceptStore, DataPropId, DataRangeId, IndividualId, KnowledgeBase,
     RoleId,
@@ -64,6 +65,17 @@ pub struct Prepared {
     pub conj_index: Vec<Vec<usize>>,
     /// Number of fresh atoms introduced by absorption.
     pub fresh_atoms: u32,
+    /// Roles with a property chain below them: ∀r.C goes through r's automaton.
+    pub complex: Vec<bool>,
+    /// The automaton of each complex role (Horrocks, Kutz & Sattler 2006).
+    pub automata: Vec<Option<std::sync::Arc<RoleAutomaton>>>,
+    /// Pairs of disjoint roles, in every orientation ((r, s), (s, r), (r⁻, s⁻), (s⁻, r⁻));
+    /// an asymmetric r gives (r, r⁻).
+    pub disjoint_roles: Vec<(RoleId, RoleId)>,
+    /// Keys (class, object properties, data properties), applied to named individuals.
+    pub keys: Vec<(ConceptId, Vec<RoleId>, Vec<DataPropId>)>,
+    /// Whether a TBox axiom has an at-most restriction or a functional property.
+    pub tbox_at_most: bool,
 }
 
 impl Prepared {
@@ -131,6 +143,47 @@ pub fn prepare(
     }
     warshall(&mut p.sub, n_roles);
     warshall(&mut data_sub, n_dp);
+    // Property chains: the automata of the roles that have one below them.
+    let chains: Vec<(Vec<RoleId>, RoleId)> = axioms
+        .iter()
+        .filter_map(|(a, _)| match a {
+            Axiom::SubRoleChain(w, s) => Some((w.clone(), *s)),
+            _ => None,
+        })
+        .collect();
+    p.complex = vec![false; n_roles];
+    p.automata = vec![None; n_roles];
+    if !chains.is_empty() {
+        let name = |r: RoleId| {
+            let iri = format!("<{}>", kb.vocab.prop_iri(r.prop()));
+            if r.is_inverse() {
+                format!("ObjectInverseOf({iri})")
+            } else {
+                iri
+            }
+        };
+        let rbox = RoleBox {
+            n_roles,
+            sub: &p.sub,
+            transitive: &p.transitive,
+            chains: &chains,
+            name: &name,
+        };
+        let mut builder = Builder::new(&rbox);
+        let complex = builder.complex().to_vec();
+        for r in 0..n_roles {
+            if complex[r] {
+                let a = builder
+                    .automaton(RoleId(r as u32))
+                    .map_err(|reason| Refusal {
+                        axiom: None,
+                        reason,
+                    })?;
+                p.automata[r] = Some(std::sync::Arc::new(a));
+            }
+        }
+        p.complex = complex;
+    }
     p.supers = (0..n_roles)
         .map(|s| {
             (0..n_roles)
@@ -148,7 +201,7 @@ pub fn prepare(
         })
         .collect();
     p.simple = (0..n_roles)
-        .map(|r| !(0..n_roles).any(|s| p.transitive[s] && p.sub[s * n_roles + r]))
+        .map(|r| !p.complex[r] && !(0..n_roles).any(|s| p.transitive[s] && p.sub[s * n_roles + r]))
         .collect();
 
     // Check the logic: number restrictions only on simple roles; nominals only where handled.
@@ -167,11 +220,32 @@ pub fn prepare(
                 if !p.simple[r.index()] {
                     return Err(Refusal {
                         axiom: text(),
-                        reason: "a functional property must be simple (no transitive sub-property) in SHIQ".into(),
+                        reason: NOT_SIMPLE.replace("{what}", "a functional property"),
                     });
                 }
                 vec![]
             }
+            Axiom::Irreflexive(r) | Axiom::Asymmetric(r) => {
+                if !p.simple[r.index()] {
+                    return Err(Refusal {
+                        axiom: text(),
+                        reason: NOT_SIMPLE
+                            .replace("{what}", "an irreflexive or asymmetric property"),
+                    });
+                }
+                vec![]
+            }
+            Axiom::DisjointRoles(rs) => {
+                if rs.iter().any(|r| !p.simple[r.index()]) {
+                    return Err(Refusal {
+                        axiom: text(),
+                        reason: NOT_SIMPLE
+                            .replace("{what}", "each of a set of disjoint properties"),
+                    });
+                }
+                vec![]
+            }
+            Axiom::HasKey(c, _, _) => vec![*c],
             _ => vec![],
         };
         let is_tbox = !matches!(a, Axiom::ClassAssertion(..));
@@ -212,10 +286,20 @@ pub fn prepare(
                         if !p.simple[r.index()] {
                             return Err(Refusal {
                                 axiom: text(),
-                                reason: "number restriction on a non-simple property (one that is transitive or has a transitive sub-property)".into(),
+                                reason: NOT_SIMPLE
+                                    .replace("{what}", "the property of a number restriction"),
                             });
                         }
                         stack.push((f, false));
+                    }
+                    Concept::HasSelf(r) | Concept::NotSelf(r) => {
+                        if !p.simple[r.index()] {
+                            return Err(Refusal {
+                                axiom: text(),
+                                reason: NOT_SIMPLE
+                                    .replace("{what}", "the property of a self restriction"),
+                            });
+                        }
                     }
                     // An enumeration asserted of a named individual is a choice among
                     // equalities between named individuals, which the tableau handles by
@@ -246,6 +330,14 @@ pub fn prepare(
         });
     }
     p.tbox_nominals = tbox_nominals;
+    p.tbox_at_most = has_at_most;
+    if let Some((a, src)) = axioms.iter().find(|(a, _)| matches!(a, Axiom::HasKey(..))) {
+        let _ = a;
+        return Err(Refusal {
+            axiom: src.map(|s| kb.sources[s].text.clone()),
+            reason: "keys (HasKey) are not supported yet".into(),
+        });
+    }
 
     // Absorption.
     let mut gcis: Vec<(ConceptId, ConceptId)> = Vec::new();
@@ -278,6 +370,21 @@ pub fn prepare(
                 }
             }
             Axiom::Domain(r, c) => p.triggers[r.index()].push(*c),
+            // Ref(r): ⊤ ⊑ ∃r.Self; Irr(r): ⊤ ⊑ ¬∃r.Self (∃r⁻.Self is ∃r.Self).
+            Axiom::Reflexive(r) => gcis.push((ConceptId::TOP, self_of(concepts, *r))),
+            Axiom::Irreflexive(r) => {
+                let s = self_of(concepts, *r);
+                gcis.push((ConceptId::TOP, concepts.not(s)));
+            }
+            Axiom::Asymmetric(r) => push_disjoint(&mut p.disjoint_roles, *r, r.inverse()),
+            Axiom::DisjointRoles(rs) => {
+                for i in 0..rs.len() {
+                    for j in i + 1..rs.len() {
+                        push_disjoint(&mut p.disjoint_roles, rs[i], rs[j]);
+                    }
+                }
+            }
+            Axiom::HasKey(c, rs, ds) => p.keys.push((*c, rs.clone(), ds.clone())),
             Axiom::Functional(r) => {
                 let f = concepts.at_most(1, *r, ConceptId::TOP);
                 p.triggers[r.index()].push(f);
@@ -453,6 +560,28 @@ fn absorb(
         _ => {
             let nc = concepts.not(c);
             universal.push(concepts.or([nc, d]));
+        }
+    }
+}
+
+/// The refusal of a non-simple property where OWL 2 DL needs a simple one.
+const NOT_SIMPLE: &str = "{what} must be simple: OWL 2 DL (Structural Specification §11.2) forbids a property that is transitive or has a transitive sub-property or a property chain below it here; remove the transitivity or chain, or use another property";
+
+/// ∃r.Self for a role in either direction.
+fn self_of(concepts: &mut ConceptStore, r: RoleId) -> ConceptId {
+    concepts.has_self(if r.is_inverse() { r.inverse() } else { r })
+}
+
+/// Records r and s as disjoint in every orientation the tableau may meet them.
+fn push_disjoint(pairs: &mut Vec<(RoleId, RoleId)>, r: RoleId, s: RoleId) {
+    for pair in [
+        (r, s),
+        (s, r),
+        (r.inverse(), s.inverse()),
+        (s.inverse(), r.inverse()),
+    ] {
+        if !pairs.contains(&pair) {
+            pairs.push(pair);
         }
     }
 }

@@ -418,6 +418,13 @@ impl<'a> Tableau<'a> {
             self.set_clash(dep);
             return;
         }
+        if let Concept::NotSelf(r) = concept
+            && let Some(d) = self.loop_dep(x, r)
+        {
+            let d = self.deps.union(dep, d);
+            self.set_clash(d);
+            return;
+        }
         let node = self.g.nodes.get_mut(x);
         node.label.push(c);
         node.deps.insert(c, dep);
@@ -429,7 +436,7 @@ impl<'a> Tableau<'a> {
             }
             Concept::Some(..) | Concept::AtLeast(..) => node.gens.push(c),
             Concept::AtMost(..) => node.at_mosts.push(c),
-            Concept::All(..) => node.alls.push(c),
+            Concept::All(..) | Concept::AllPath(..) => node.alls.push(c),
             Concept::DataSome(..) | Concept::DataAll(..) => node.data_dirty = true,
             _ => {}
         }
@@ -479,6 +486,55 @@ impl<'a> Tableau<'a> {
         out
     }
 
+    /// The dependency of a self-loop at x whose role is below r in either direction (a loop
+    /// r(x, x) is also r⁻(x, x)), if x has one.
+    fn loop_dep(&self, x: NodeId, r: RoleId) -> Option<Dep> {
+        let p = self.prep;
+        for &e in &self.g.nodes[x].edges {
+            let ed = &self.g.edges[e];
+            if ed.active && ed.a == x && ed.b == x {
+                for &(s, d) in &ed.roles {
+                    if p.is_sub(s, r) || p.is_sub(s.inverse(), r) {
+                        return Some(d);
+                    }
+                }
+            }
+        }
+        None
+    }
+
+    /// Checks role r, just added to edge e in the edge's orientation, against the disjoint
+    /// and asymmetric roles: a clash when the edge also carries a role disjoint with it.
+    fn check_disjoint_roles(&mut self, e: EdgeId, r: RoleId, dep: Dep) {
+        let p = self.prep;
+        let ed = &self.g.edges[e];
+        let is_loop = ed.a == ed.b;
+        // On a loop a role holds in both directions.
+        let views = |s: RoleId| {
+            if is_loop {
+                vec![s, s.inverse()]
+            } else {
+                vec![s]
+            }
+        };
+        let mut found = None;
+        'pairs: for &(pr, qr) in &p.disjoint_roles {
+            if !views(r).iter().any(|&v| p.is_sub(v, pr)) {
+                continue;
+            }
+            for &(s, ds) in &ed.roles {
+                if views(s).iter().any(|&v| p.is_sub(v, qr)) {
+                    found = Some(ds);
+                    break 'pairs;
+                }
+            }
+        }
+        if let Some(ds) = found {
+            let d = self.deps.union(dep, ds);
+            self.set_clash(d);
+        }
+    }
+
     /// Adds role r on the edge x → y and fires the rules that a new edge enables.
     fn add_edge(&mut self, x: NodeId, y: NodeId, r: RoleId, dep: Dep) {
         let existing = self.g.nodes[x].edges.iter().copied().find(|&e| {
@@ -513,6 +569,26 @@ impl<'a> Tableau<'a> {
             }
         };
         self.g.edges.get_mut(e).roles.push((oriented, dep));
+        if !self.prep.disjoint_roles.is_empty() {
+            self.check_disjoint_roles(e, oriented, dep);
+        }
+        if x == y {
+            // A new loop meets the node's ¬∃s.Self.
+            let nots: Vec<(RoleId, Dep)> = self.g.nodes[x]
+                .label
+                .iter()
+                .filter_map(|&c| match *self.concepts.get(c) {
+                    Concept::NotSelf(s) => Some((s, self.g.nodes[x].deps[&c])),
+                    _ => None,
+                })
+                .collect();
+            for (s, ds) in nots {
+                if self.prep.is_sub(r, s) || self.prep.is_sub(r.inverse(), s) {
+                    let d = self.deps.union(dep, ds);
+                    self.set_clash(d);
+                }
+            }
+        }
         self.fire_edge(x, y, r, dep);
         if x == y {
             self.fire_edge(x, x, r.inverse(), dep);
@@ -540,13 +616,34 @@ impl<'a> Tableau<'a> {
         }
         let alls = self.g.nodes[x].alls.clone();
         for c in alls {
-            if let Concept::All(s, f) = *self.concepts.get(c)
-                && p.is_sub(r, s)
-            {
-                let dc = self.has(x, c).unwrap_or(Dep::EMPTY);
-                let d = self.deps.union(dep, dc);
-                self.add(y, f, d);
-                self.all_plus(y, r, s, f, d);
+            match *self.concepts.get(c) {
+                Concept::All(s, f) if !p.complex[s.index()] && p.is_sub(r, s) => {
+                    let dc = self.has(x, c).unwrap_or(Dep::EMPTY);
+                    let d = self.deps.union(dep, dc);
+                    self.add(y, f, d);
+                    self.all_plus(y, r, s, f, d);
+                }
+                Concept::AllPath(s, q, f) => {
+                    let dc = self.has(x, c).unwrap_or(Dep::EMPTY);
+                    let d = self.deps.union(dep, dc);
+                    self.path_step(y, r, s, q, f, d);
+                }
+                _ => {}
+            }
+        }
+    }
+
+    /// The ∀₂ rule of Horrocks, Kutz & Sattler 2006: ∀B_s(q).C at x and y an r-neighbour of
+    /// x: ∀B_s(q').C at y for every move q →S q' with r ⊑* S.
+    fn path_step(&mut self, y: NodeId, r: RoleId, s: RoleId, q: u32, f: ConceptId, d: Dep) {
+        let p = self.prep;
+        let aut = p.automata[s.index()]
+            .as_ref()
+            .expect("an automaton for a complex role");
+        for &(label, next) in &aut.moves[q as usize] {
+            if p.is_sub(r, label) {
+                let c = self.concepts.all_path(s, next, f);
+                self.add(y, c, d);
             }
         }
     }
@@ -628,6 +725,23 @@ impl<'a> Tableau<'a> {
                     }
                 }
             }
+            Concept::All(r, f) if p.complex[r.index()] => {
+                // ∀r.C is ∀B_r(q₀).C (the ∀₁ rule).
+                let c = self.concepts.all_path(r, 0, f);
+                self.add(x, c, dep);
+            }
+            Concept::AllPath(r, q, f) => {
+                // ∀₃: a final state puts C here; ∀₂: the state moves along every edge.
+                let aut = p.automata[r.index()].as_ref().expect("automaton");
+                if aut.accepting[q as usize] {
+                    self.add(x, f, dep);
+                }
+                for (y, s, ed) in self.neighbours(x) {
+                    let d = self.deps.union(dep, ed);
+                    self.path_step(y, s, r, q, f, d);
+                }
+            }
+            Concept::HasSelf(r) => self.add_edge(x, x, r, dep),
             Concept::All(r, f) => {
                 for (y, s, ed) in self.neighbours(x) {
                     if p.is_sub(s, r) {
@@ -764,7 +878,10 @@ impl<'a> Tableau<'a> {
     fn blocked_all(&mut self) -> Vec<Status> {
         let n = self.g.nodes.len();
         let mut blocked = vec![Status::Open; n];
-        let mut seen: HashMap<(u64, u64, Vec<RoleId>), Vec<NodeId>> = HashMap::new();
+        // The key holds the node's self-loop roles too: a loop made by merging a successor
+        // into its predecessor is in no label, yet may meet the node's ∃ demands.
+        type Key = (u64, u64, Vec<RoleId>, Vec<RoleId>);
+        let mut seen: HashMap<Key, Vec<NodeId>> = HashMap::new();
         for x in 0..n {
             let node = &self.g.nodes[x];
             if !node.active || node.is_root() {
@@ -782,7 +899,7 @@ impl<'a> Tableau<'a> {
                 continue;
             }
             let node = &self.g.nodes[x];
-            let key = (node.hash, self.g.nodes[xp].hash, roles);
+            let key = (node.hash, self.g.nodes[xp].hash, roles, self.loop_roles(x));
             let blocker = seen.get(&key).and_then(|cands| {
                 cands.iter().copied().find(|&y| {
                     let yp = self.g.nodes[y].parent.expect("tree node");
@@ -839,6 +956,20 @@ impl<'a> Tableau<'a> {
             let label: Vec<ConceptId> = node.deps.0.iter().map(|e| e.0).collect();
             self.cache.record_sat(node.hash, label);
         }
+    }
+
+    /// The roles of x's self-loop, each in its named direction, sorted.
+    fn loop_roles(&self, x: NodeId) -> Vec<RoleId> {
+        let mut v = Vec::new();
+        for &e in &self.g.nodes[x].edges {
+            let ed = &self.g.edges[e];
+            if ed.active && ed.a == x && ed.b == x {
+                v.extend(ed.roles.iter().map(|&(r, _)| r.min(r.inverse())));
+            }
+        }
+        v.sort_unstable();
+        v.dedup();
+        v
     }
 
     fn same_label(&self, a: NodeId, b: NodeId) -> bool {

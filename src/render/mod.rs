@@ -666,6 +666,10 @@ pub fn dl_concept(kb: &KnowledgeBase, c: crate::kb::ConceptId) -> String {
             short(&kb.vocab.data_props[p.index()]),
             words::range_text(kb.ranges.get(*d))
         ),
+        Concept::HasSelf(r) => format!("∃{}.Self", role(*r)),
+        Concept::NotSelf(r) => format!("¬∃{}.Self", role(*r)),
+        Concept::AllPath(r, q, x) => format!("∀{}[{q}].{}", role(*r), paren(*x)),
+        Concept::SomePath(r, q, x) => format!("∃{}[{q}].{}", role(*r), paren(*x)),
     }
 }
 
@@ -711,6 +715,27 @@ pub fn dl_axiom(kb: &KnowledgeBase, a: &Axiom) -> String {
         ),
         Axiom::SubRole(r, s) => format!("{} ⊑ {}", role(*r), role(*s)),
         Axiom::Transitive(r) => format!("Trans({})", role(*r)),
+        Axiom::SubRoleChain(rs, s) => format!(
+            "{} ⊑ {}",
+            rs.iter().map(|&r| role(r)).collect::<Vec<_>>().join(" ∘ "),
+            role(*s)
+        ),
+        Axiom::Reflexive(r) => format!("Ref({})", role(*r)),
+        Axiom::Irreflexive(r) => format!("Irr({})", role(*r)),
+        Axiom::Asymmetric(r) => format!("Asy({})", role(*r)),
+        Axiom::DisjointRoles(rs) => format!(
+            "Dis({})",
+            rs.iter().map(|&r| role(r)).collect::<Vec<_>>().join(", ")
+        ),
+        Axiom::HasKey(x, rs, ps) => format!(
+            "key({}: {})",
+            c(*x),
+            rs.iter()
+                .map(|&r| role(r))
+                .chain(ps.iter().map(|p| short(&kb.vocab.data_props[p.index()])))
+                .collect::<Vec<_>>()
+                .join(", ")
+        ),
         Axiom::Functional(r) => format!("⊤ ⊑ ≤1 {}.⊤", role(*r)),
         Axiom::Domain(r, x) => format!("∃{}.⊤ ⊑ {}", role(*r), c(*x)),
         Axiom::SubDataProp(p, q) => format!(

@@ -789,6 +789,10 @@ fn manchester(s: &Session, kb: &KnowledgeBase, c: ConceptId) -> String {
             s.names.short(&kb.vocab.data_props[p.index()]),
             crate::render::words::range_text(kb.ranges.get(*d))
         ),
+        Concept::HasSelf(r) => format!("{} Self", role(*r)),
+        Concept::NotSelf(r) => format!("not ({} Self)", role(*r)),
+        Concept::AllPath(r, _, x) => format!("{} only {}", role(*r), sub(*x)),
+        Concept::SomePath(r, _, x) => format!("{} some {}", role(*r), sub(*x)),
     }
 }
 

@@ -301,33 +301,17 @@ pub fn prepare(
                             });
                         }
                     }
-                    // An enumeration asserted of a named individual is a choice among
-                    // equalities between named individuals, which the tableau handles by
-                    // merging root nodes.
-                    Concept::Nominal(_) if !is_tbox && top => {}
-                    // ¬{a} in the TBox: negated with its side it is the enumeration {a}.
-                    Concept::NotNominal(_) if is_tbox => {
-                        return Err(Refusal {
-                            axiom: text(),
-                            reason: "the complement of an enumeration (ObjectComplementOf(ObjectOneOf(...))) used as a class in the TBox needs a reasoner with full nominal support; only ObjectHasValue fillers and ABox uses are handled".into(),
-                        });
-                    }
-                    Concept::Nominal(_) => {
-                        return Err(Refusal {
-                            axiom: text(),
-                            reason: "an enumeration (ObjectOneOf) used as a class in the TBox needs a reasoner with full nominal support; only ObjectHasValue fillers and ABox uses are handled".into(),
-                        });
+                    // A nominal anywhere: a node that gets {a} is merged into a's root node
+                    // (the o-rule). In the TBox, concept tests then carry the ABox.
+                    Concept::Nominal(_) | Concept::NotNominal(_) => {
+                        if is_tbox {
+                            tbox_nominals = true;
+                        }
                     }
                     _ => {}
                 }
             }
         }
-    }
-    if tbox_nominals && has_at_most {
-        return Err(Refusal {
-            axiom: None,
-            reason: "ObjectHasValue in the TBox together with number restrictions or functional properties needs SHOIQ, which this reasoner does not implement".into(),
-        });
     }
     p.tbox_nominals = tbox_nominals;
     p.tbox_at_most = has_at_most;

@@ -228,6 +228,8 @@ pub struct Tableau<'a> {
     query_root: Option<NodeId>,
     /// A limit met inside a step; the search loop returns it.
     stopped: Option<Limit>,
+    /// The nodes that blocked others in the last blocking pass.
+    blockers: Vec<NodeId>,
 }
 
 impl<'a> Tableau<'a> {
@@ -255,6 +257,7 @@ impl<'a> Tableau<'a> {
             stats: Stats::default(),
             query_root: None,
             stopped: None,
+            blockers: Vec::new(),
         }
     }
 
@@ -878,6 +881,7 @@ impl<'a> Tableau<'a> {
     fn blocked_all(&mut self) -> Vec<Status> {
         let n = self.g.nodes.len();
         let mut blocked = vec![Status::Open; n];
+        self.blockers.clear();
         // The key holds the node's self-loop roles too: a loop made by merging a successor
         // into its predecessor is in no label, yet may meet the node's ∃ demands.
         type Key = (u64, u64, Vec<RoleId>, Vec<RoleId>);
@@ -906,8 +910,9 @@ impl<'a> Tableau<'a> {
                     self.same_label(x, y) && self.same_label(xp, yp)
                 })
             });
-            if blocker.is_some() {
+            if let Some(y) = blocker {
                 blocked[x] = Status::Blocked;
+                self.blockers.push(y);
             } else {
                 seen.entry(key).or_default().push(x);
             }
@@ -1526,8 +1531,51 @@ impl<'a> Tableau<'a> {
             if self.record {
                 self.record_labels(&blocked);
             }
+            if self.nominal_counting_at_risk() {
+                return Outcome::Unknown(Limit::NominalCounting);
+            }
             return Outcome::Sat(self.model());
         }
+    }
+
+    /// Whether the model read off the finished graph could break a root node's at-most
+    /// restriction. Blocking unravels the graph: each blocked node gets copies of its
+    /// blocker's successors, and a copied node with an edge to a root node (an individual or
+    /// a merged nominal) adds a neighbour there that the ≤-rule never counted. SHOIQ's NN-rule
+    /// (Horrocks & Sattler 2007) prevents this; without it, such a graph proves nothing.
+    fn nominal_counting_at_risk(&self) -> bool {
+        if self.blockers.is_empty() {
+            return false;
+        }
+        let n = self.g.nodes.len();
+        // Strict descendants of a blocker are the nodes that unravelling copies.
+        let mut copied = vec![false; n];
+        let mut is_blocker = vec![false; n];
+        for &b in &self.blockers {
+            is_blocker[b] = true;
+        }
+        for x in 0..n {
+            if let Some(p) = self.g.nodes[x].parent {
+                copied[x] = p < x && (copied[p] || is_blocker[p]);
+            }
+        }
+        for o in 0..n {
+            let node = &self.g.nodes[o];
+            if !node.active || !node.is_root() || node.at_mosts.is_empty() {
+                continue;
+            }
+            for &c in &node.at_mosts {
+                let Concept::AtMost(_, s, f) = *self.concepts.get(c) else {
+                    continue;
+                };
+                for (w, r, _) in self.neighbours(o) {
+                    if copied[w] && self.prep.is_sub(r, s) && self.has(w, f).is_some() {
+                        return true;
+                    }
+                }
+            }
+        }
+        false
     }
 
     fn model(&self) -> Model {

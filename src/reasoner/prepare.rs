@@ -315,12 +315,26 @@ pub fn prepare(
     }
     p.tbox_nominals = tbox_nominals;
     p.tbox_at_most = has_at_most;
-    if let Some((a, src)) = axioms.iter().find(|(a, _)| matches!(a, Axiom::HasKey(..))) {
-        let _ = a;
-        return Err(Refusal {
-            axiom: src.map(|s| kb.sources[s].text.clone()),
-            reason: "keys (HasKey) are not supported yet".into(),
-        });
+    for (a, src) in &axioms {
+        let Axiom::HasKey(_, roles, data) = a else {
+            continue;
+        };
+        let text = src.map(|s| kb.sources[s].text.clone());
+        if !data.is_empty() {
+            return Err(Refusal {
+                axiom: text,
+                reason:
+                    "keys on data properties are not supported yet (keys on object properties are)"
+                        .into(),
+            });
+        }
+        if roles.iter().any(|r| !p.simple[r.index()]) {
+            return Err(Refusal {
+                axiom: text,
+                reason: NOT_SIMPLE
+                    .replace("{what}", "each object property of a key (in this reasoner)"),
+            });
+        }
     }
 
     // Absorption.
@@ -352,6 +366,12 @@ pub fn prepare(
                         gcis.push((cs[i], nj));
                     }
                 }
+            }
+            // A trigger fires on an edge; a role with a chain below it also holds along paths
+            // of edges, so its domain goes through the automaton as ⊤ ⊑ ∀r⁻.C instead.
+            Axiom::Domain(r, c) if p.complex[r.index()] => {
+                let all = concepts.all(r.inverse(), *c);
+                gcis.push((ConceptId::TOP, all));
             }
             Axiom::Domain(r, c) => p.triggers[r.index()].push(*c),
             // Ref(r): ⊤ ⊑ ∃r.Self; Irr(r): ⊤ ⊑ ¬∃r.Self (∃r⁻.Self is ∃r.Self).
@@ -533,7 +553,7 @@ fn absorb(
         // below) and, internalised, would put the disjunction ¬{a} ⊔ D on every node.
         Concept::Nominal(a) => p.class_assertions.push((d, a)),
         Concept::Some(r, x) => {
-            if x == ConceptId::TOP {
+            if x == ConceptId::TOP && !p.complex[r.index()] {
                 p.triggers[r.index()].push(d);
             } else {
                 // ∃r.X ⊑ D  ⇔  X ⊑ ∀r⁻.D.

@@ -1521,6 +1521,9 @@ impl<'a> Tableau<'a> {
             if self.clash.is_some() {
                 continue;
             }
+            if !self.prep.keys.is_empty() && self.apply_keys() {
+                continue;
+            }
             if self.nondeterministic(&[]) {
                 continue;
             }
@@ -1536,6 +1539,85 @@ impl<'a> Tableau<'a> {
             }
             return Outcome::Sat(self.model());
         }
+    }
+
+    /// The key rule (DL-safe keys, OWL 2 Direct Semantics §2.3.5; Motik, Sattler & Studer
+    /// 2005): two named individuals in a key's class that share a named filler for each of its
+    /// object properties are the same. A key's class that is not a named class is decided on
+    /// each named individual first (a choose rule), since the model read off the graph may put
+    /// an individual in it without the label saying so. Returns whether a rule applied.
+    fn apply_keys(&mut self) -> bool {
+        let prep = self.prep;
+        let named: Vec<NodeId> = (0..self.g.nodes.len())
+            .filter(|&x| self.g.nodes[x].active && !self.g.nodes[x].names.is_empty())
+            .collect();
+        for (c, roles, _) in &prep.keys {
+            let c = *c;
+            if !matches!(self.concepts.get(c), Concept::Atom(_)) {
+                let nc = self.concepts.not(c);
+                for &x in &named {
+                    if self.has(x, c).is_none() && self.has(x, nc).is_none() {
+                        self.stats.branches += 1;
+                        self.branch(
+                            Choice::Add {
+                                node: x,
+                                options: vec![c, nc],
+                            },
+                            Dep::EMPTY,
+                        );
+                        return true;
+                    }
+                }
+            }
+            let members: Vec<(NodeId, Dep)> = named
+                .iter()
+                .filter_map(|&x| self.has(x, c).map(|d| (x, d)))
+                .collect();
+            for i in 0..members.len() {
+                for j in i + 1..members.len() {
+                    let ((x, dx), (y, dy)) = (members[i], members[j]);
+                    let mut dep = self.deps.union(dx, dy);
+                    let mut all = true;
+                    for &r in roles {
+                        match self.shared_named_filler(x, y, r) {
+                            Some(d) => dep = self.deps.union(dep, d),
+                            None => {
+                                all = false;
+                                break;
+                            }
+                        }
+                    }
+                    if !all {
+                        continue;
+                    }
+                    if let Some(d) = self.distinct(x, y) {
+                        let dd = self.deps.union(d, dep);
+                        self.set_clash(dd);
+                    } else {
+                        self.stats.merges += 1;
+                        let (from, into) = if x < y { (y, x) } else { (x, y) };
+                        self.merge(from, into, dep);
+                    }
+                    return true;
+                }
+            }
+        }
+        false
+    }
+
+    /// A named node that is an r-neighbour of both x and y, with the edges' dependencies.
+    fn shared_named_filler(&mut self, x: NodeId, y: NodeId, r: RoleId) -> Option<Dep> {
+        let xs = self.r_neighbours(x, r);
+        let ys = self.r_neighbours(y, r);
+        for (z, dz) in xs {
+            if self.g.nodes[z].names.is_empty() {
+                continue;
+            }
+            if let Some(&(_, dz2)) = ys.iter().find(|&&(w, _)| w == z) {
+                return Some(self.deps.union(dz, dz2));
+            }
+        }
+        None
     }
 
     /// Whether the model read off the finished graph could break a root node's at-most

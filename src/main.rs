@@ -16,6 +16,18 @@ fn main() {
         }
         default_hook(info);
     }));
-    let code = wherefore::cli::main_with_args(std::env::args_os());
+    // The work runs on a thread with a large stack: recursive walks over class expressions
+    // (conversion, writing axioms back as text, dropping parsed trees) go as deep as the
+    // input nests, and a document may nest tens of thousands of levels. The loader refuses
+    // deeper ones (`kb::owl::MAX_NESTING`); this stack holds that depth with room to spare.
+    let worker = std::thread::Builder::new()
+        .name("wherefore".into())
+        .stack_size(1 << 30)
+        .spawn(|| wherefore::cli::main_with_args(std::env::args_os()));
+    let code = match worker {
+        Ok(handle) => handle.join().unwrap_or(101),
+        // No thread could be made (a very low limit on virtual memory): run here instead.
+        Err(_) => wherefore::cli::main_with_args(std::env::args_os()),
+    };
     std::process::exit(code);
 }

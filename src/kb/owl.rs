@@ -181,6 +181,7 @@ pub fn load_into(
             kb,
             file,
             lenient: opts.lenient,
+            depth: 0,
         };
         conv.convert_all(&parsed.components)?;
     }
@@ -300,6 +301,7 @@ pub fn load_axioms_text(
         kb,
         file: name.to_string(),
         lenient: false,
+        depth: 0,
     };
     conv.convert_all(&comps)?;
     Ok(start..kb.axioms.len())
@@ -995,7 +997,13 @@ struct Converter<'a> {
     kb: &'a mut KnowledgeBase,
     file: String,
     lenient: bool,
+    /// How deep the class expression being converted is nested so far.
+    depth: usize,
 }
+
+/// The deepest nesting of class expressions the loader accepts; deeper ones are refused
+/// (exit code 2) rather than risk the stack.
+pub const MAX_NESTING: usize = 100_000;
 
 type Conv<T> = Result<T, String>;
 
@@ -1475,6 +1483,18 @@ impl Converter<'_> {
 
     /// Translates a class expression into a concept in NNF.
     fn ce(&mut self, e: &CE<ArcStr>) -> Conv<ConceptId> {
+        if self.depth >= MAX_NESTING {
+            return Err(format!(
+                "a class expression nested more than {MAX_NESTING} levels deep; flatten it with named classes"
+            ));
+        }
+        self.depth += 1;
+        let c = self.ce_nested(e);
+        self.depth -= 1;
+        c
+    }
+
+    fn ce_nested(&mut self, e: &CE<ArcStr>) -> Conv<ConceptId> {
         if let Some(c) = special_restriction(e) {
             return Ok(c);
         }

@@ -57,6 +57,11 @@ impl SatCache {
         }
     }
 
+    /// Whether some label with this hash was recorded (a cheap test before the full one).
+    pub fn knows_hash(&self, hash: u64) -> bool {
+        self.sat.contains_key(&hash)
+    }
+
     /// Whether the label (sorted by concept id, with its order-independent hash) is known to
     /// be satisfiable by a node whose demands its own subtree meets.
     pub fn is_sat_label(&self, hash: u64, label: impl ExactSizeIterator<Item = ConceptId>) -> bool {

@@ -150,6 +150,9 @@ pub struct Graph {
     /// No node before this one has a disjunction left to decide: the ⊔ scan starts here
     /// instead of at node 0 on every step.
     or_from: NodeId,
+    /// No node before this one has an ∃/≥ demand left unmet: the generating scan starts
+    /// here. Reset to 0 when a merge or prune may have removed a node that met a demand.
+    gen_from: NodeId,
 }
 
 #[derive(Clone, Debug)]
@@ -437,7 +440,10 @@ impl<'a> Tableau<'a> {
                 node.ors.push(c);
                 self.g.or_from = self.g.or_from.min(x);
             }
-            Concept::Some(..) | Concept::AtLeast(..) => node.gens.push(c),
+            Concept::Some(..) | Concept::AtLeast(..) => {
+                node.gens.push(c);
+                self.g.gen_from = self.g.gen_from.min(x);
+            }
             Concept::AtMost(..) => node.at_mosts.push(c),
             Concept::All(..) | Concept::AllPath(..) => node.alls.push(c),
             Concept::DataSome(..) | Concept::DataAll(..) => node.data_dirty = true,
@@ -882,10 +888,11 @@ impl<'a> Tableau<'a> {
         let n = self.g.nodes.len();
         let mut blocked = vec![Status::Open; n];
         self.blockers.clear();
-        // The key holds the node's self-loop roles too: a loop made by merging a successor
-        // into its predecessor is in no label, yet may meet the node's ∃ demands.
-        type Key = (u64, u64, Vec<RoleId>, Vec<RoleId>);
-        let mut seen: HashMap<Key, Vec<NodeId>> = HashMap::new();
+        // Earlier unblocked nodes by a hash of their label and their parent's label: the head
+        // of a list threaded through `next`, so a pass allocates nothing per node.
+        let mut heads: HashMap<u64, NodeId, std::hash::BuildHasherDefault<MixedKey>> =
+            HashMap::default();
+        let mut next = vec![usize::MAX; n];
         for x in 0..n {
             let node = &self.g.nodes[x];
             if !node.active || node.is_root() {
@@ -896,25 +903,38 @@ impl<'a> Tableau<'a> {
                 blocked[x] = Status::Below;
                 continue;
             }
-            let roles = self.edge_roles(xp, x);
-            if self.use_labels && self.reusable(x, &roles) {
-                self.stats.cache_hits += 1;
-                blocked[x] = Status::Cached;
-                continue;
+            if self.use_labels && self.cache.knows_hash(node.hash) {
+                let roles = self.edge_roles(xp, x);
+                if self.reusable(x, &roles) {
+                    self.stats.cache_hits += 1;
+                    blocked[x] = Status::Cached;
+                    continue;
+                }
             }
             let node = &self.g.nodes[x];
-            let key = (node.hash, self.g.nodes[xp].hash, roles, self.loop_roles(x));
-            let blocker = seen.get(&key).and_then(|cands| {
-                cands.iter().copied().find(|&y| {
-                    let yp = self.g.nodes[y].parent.expect("tree node");
-                    self.same_label(x, y) && self.same_label(xp, yp)
-                })
-            });
+            let key = mix(node.hash ^ mix(self.g.nodes[xp].hash).rotate_left(17));
+            let mut cand = heads.get(&key).copied().unwrap_or(usize::MAX);
+            let mut blocker = None;
+            while cand != usize::MAX {
+                let y = cand;
+                let yp = self.g.nodes[y].parent.expect("tree node");
+                // The node's self-loop roles count too: a loop made by merging a successor
+                // into its predecessor is in no label, yet may meet the node's ∃ demands.
+                if self.same_label(x, y)
+                    && self.same_label(xp, yp)
+                    && self.edge_roles(xp, x) == self.edge_roles(yp, y)
+                    && self.loop_roles(x) == self.loop_roles(y)
+                {
+                    blocker = Some(y);
+                    break;
+                }
+                cand = next[y];
+            }
             if let Some(y) = blocker {
                 blocked[x] = Status::Blocked;
                 self.blockers.push(y);
             } else {
-                seen.entry(key).or_default().push(x);
+                next[x] = heads.insert(key, x).unwrap_or(usize::MAX);
             }
         }
         blocked
@@ -1283,6 +1303,7 @@ impl<'a> Tableau<'a> {
 
     /// Merges node y into z (the ≤-rule's Merge, Horrocks, Sattler & Tobies 2000).
     fn merge(&mut self, y: NodeId, z: NodeId, dep: Dep) {
+        self.g.gen_from = 0;
         let label: Vec<(ConceptId, Dep)> = self.g.nodes[y]
             .label
             .iter()
@@ -1352,6 +1373,7 @@ impl<'a> Tableau<'a> {
     }
 
     fn prune(&mut self, x: NodeId) {
+        self.g.gen_from = 0;
         let mut stack = vec![x];
         while let Some(n) = stack.pop() {
             if !self.g.nodes[n].active {
@@ -1375,11 +1397,52 @@ impl<'a> Tableau<'a> {
         }
     }
 
+    /// Whether every ∃/≥ demand of x is met by its current neighbours.
+    fn demands_met(&mut self, x: NodeId) -> bool {
+        for i in 0..self.g.nodes[x].gens.len() {
+            let c = self.g.nodes[x].gens[i];
+            let met = match *self.concepts.get(c) {
+                Concept::Some(r, f) => self
+                    .r_neighbours(x, r)
+                    .iter()
+                    .any(|&(y, _)| self.has(y, f).is_some()),
+                Concept::AtLeast(n, r, f) => {
+                    let cands: Vec<NodeId> = self
+                        .r_neighbours(x, r)
+                        .into_iter()
+                        .filter(|&(y, _)| self.has(y, f).is_some())
+                        .map(|(y, _)| y)
+                        .collect();
+                    self.has_clique(&cands, n as usize)
+                }
+                _ => true,
+            };
+            if !met {
+                return false;
+            }
+        }
+        true
+    }
+
     /// Applies the generating rules (∃, ≥) to the first node that needs them.
     #[allow(clippy::needless_range_loop)]
     fn generate(&mut self, blocked: &[Status]) -> bool {
-        for x in 0..self.g.nodes.len() {
-            if !self.g.nodes[x].active || blocked[x] != Status::Open {
+        let mut clean_so_far = true;
+        for x in self.g.gen_from..self.g.nodes.len() {
+            let open = self.g.nodes[x].active && blocked[x] == Status::Open;
+            if !open {
+                if self.g.nodes[x].active && !self.g.nodes[x].gens.is_empty() {
+                    // A blocked node's demands wait: it may be unblocked later.
+                    clean_so_far = false;
+                } else if clean_so_far {
+                    self.g.gen_from = x + 1;
+                }
+                continue;
+            }
+            if self.demands_met(x) {
+                if clean_so_far {
+                    self.g.gen_from = x + 1;
+                }
                 continue;
             }
             let mut did = false;
@@ -1687,6 +1750,27 @@ impl<'a> Tableau<'a> {
             m.root_label = self.g.nodes[q].label.clone();
         }
         m
+    }
+}
+
+/// A hasher for keys that are already well mixed (see [`mix`]): it passes them through.
+#[derive(Default)]
+struct MixedKey(u64);
+
+impl std::hash::Hasher for MixedKey {
+    fn finish(&self) -> u64 {
+        self.0
+    }
+    fn write(&mut self, bytes: &[u8]) {
+        for &b in bytes {
+            self.0 = self.0.rotate_left(8) ^ b as u64;
+        }
+    }
+    fn write_u64(&mut self, v: u64) {
+        self.0 = v;
+    }
+    fn write_usize(&mut self, v: usize) {
+        self.0 = v as u64;
     }
 }
 

@@ -47,10 +47,10 @@ fn demo_is_complete_deterministic_and_cautious() {
     let (a, b) = (base.join("a"), base.join("b"));
     let stdout = run_demo(&a);
     run_demo(&b);
-    // The demo runs the examples' suite (examples/cases.toml: six hand-derived cases) and
+    // The demo runs the examples' suite (examples/cases.toml: seven hand-derived cases) and
     // says so; it exits non-zero when a case fails, so reaching here means all passed.
     assert!(
-        stdout.contains("example suite: 6 passed, 0 failed"),
+        stdout.contains("example suite: 7 passed, 0 failed"),
         "{stdout}"
     );
     let fa = files(&a);

@@ -171,16 +171,14 @@ pub fn prepare(
         };
         let mut builder = Builder::new(&rbox);
         let complex = builder.complex().to_vec();
-        for r in 0..n_roles {
-            if complex[r] {
-                let a = builder
-                    .automaton(RoleId(r as u32))
-                    .map_err(|reason| Refusal {
-                        axiom: None,
-                        reason,
-                    })?;
-                p.automata[r] = Some(std::sync::Arc::new(a));
-            }
+        for (r, _) in complex.iter().enumerate().filter(|(_, c)| **c) {
+            let a = builder
+                .automaton(RoleId(r as u32))
+                .map_err(|reason| Refusal {
+                    axiom: None,
+                    reason,
+                })?;
+            p.automata[r] = Some(std::sync::Arc::new(a));
         }
         p.complex = complex;
     }
@@ -292,21 +290,17 @@ pub fn prepare(
                         }
                         stack.push((f, false));
                     }
-                    Concept::HasSelf(r) | Concept::NotSelf(r) => {
-                        if !p.simple[r.index()] {
-                            return Err(Refusal {
-                                axiom: text(),
-                                reason: NOT_SIMPLE
-                                    .replace("{what}", "the property of a self restriction"),
-                            });
-                        }
+                    Concept::HasSelf(r) | Concept::NotSelf(r) if !p.simple[r.index()] => {
+                        return Err(Refusal {
+                            axiom: text(),
+                            reason: NOT_SIMPLE
+                                .replace("{what}", "the property of a self restriction"),
+                        });
                     }
                     // A nominal anywhere: a node that gets {a} is merged into a's root node
                     // (the o-rule). In the TBox, concept tests then carry the ABox.
-                    Concept::Nominal(_) | Concept::NotNominal(_) => {
-                        if is_tbox {
-                            tbox_nominals = true;
-                        }
+                    Concept::Nominal(_) | Concept::NotNominal(_) if is_tbox => {
+                        tbox_nominals = true;
                     }
                     _ => {}
                 }

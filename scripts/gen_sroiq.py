@@ -54,6 +54,8 @@ DEFAULTS = {
     "card": 12,          # relative weight of qualified/unqualified cardinalities
     "hasvalue": 8,       # relative weight of ObjectHasValue (only with --nominals)
     "oneof": 5,          # relative weight of ObjectOneOf (only with --nominals)
+    "domain": 0.15,      # chance per property of ObjectPropertyDomain
+    "range": 0.15,       # chance per property of ObjectPropertyRange
     "individuals": 0.4,  # chance per ontology of an ABox
     "planted": 0.4,      # chance per ontology of a planted SROIQ conflict
 }
@@ -179,9 +181,9 @@ class Gen:
             self.axioms.append("DisjointObjectProperties(%s)"
                                % " ".join(self.maybe_inv(p) for p in ps))
         for p in self.props:
-            if rng.random() < 0.15:
+            if rng.random() < self.w["domain"]:
                 self.axioms.append("ObjectPropertyDomain(%s %s)" % (p, self.expr(1)))
-            if rng.random() < 0.15:
+            if rng.random() < self.w["range"]:
                 self.axioms.append("ObjectPropertyRange(%s %s)" % (p, self.expr(1)))
 
     def check_simple(self):

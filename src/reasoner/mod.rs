@@ -31,6 +31,10 @@ pub enum Limit {
     Nodes,
     /// The user cancelled.
     Cancelled,
+    /// A model was found, but a nominal's at-most restriction counts nodes that blocking
+    /// would copy; deciding it needs SHOIQ's NN-rule (Horrocks & Sattler 2007), which this
+    /// tableau lacks, so it does not claim satisfiability.
+    NominalCounting,
 }
 
 impl std::fmt::Display for Limit {
@@ -39,6 +43,7 @@ impl std::fmt::Display for Limit {
             Limit::Time => "time limit reached",
             Limit::Nodes => "node limit of the completion graph reached",
             Limit::Cancelled => "cancelled",
+            Limit::NominalCounting => "a number restriction on an individual counts blocked parts of the model (nominals with number restrictions need SHOIQ's NN-rule, not implemented)",
         })
     }
 }

@@ -301,42 +301,40 @@ pub fn prepare(
                             });
                         }
                     }
-                    // An enumeration asserted of a named individual is a choice among
-                    // equalities between named individuals, which the tableau handles by
-                    // merging root nodes.
-                    Concept::Nominal(_) if !is_tbox && top => {}
-                    // ¬{a} in the TBox: negated with its side it is the enumeration {a}.
-                    Concept::NotNominal(_) if is_tbox => {
-                        return Err(Refusal {
-                            axiom: text(),
-                            reason: "the complement of an enumeration (ObjectComplementOf(ObjectOneOf(...))) used as a class in the TBox needs a reasoner with full nominal support; only ObjectHasValue fillers and ABox uses are handled".into(),
-                        });
-                    }
-                    Concept::Nominal(_) => {
-                        return Err(Refusal {
-                            axiom: text(),
-                            reason: "an enumeration (ObjectOneOf) used as a class in the TBox needs a reasoner with full nominal support; only ObjectHasValue fillers and ABox uses are handled".into(),
-                        });
+                    // A nominal anywhere: a node that gets {a} is merged into a's root node
+                    // (the o-rule). In the TBox, concept tests then carry the ABox.
+                    Concept::Nominal(_) | Concept::NotNominal(_) => {
+                        if is_tbox {
+                            tbox_nominals = true;
+                        }
                     }
                     _ => {}
                 }
             }
         }
     }
-    if tbox_nominals && has_at_most {
-        return Err(Refusal {
-            axiom: None,
-            reason: "ObjectHasValue in the TBox together with number restrictions or functional properties needs SHOIQ, which this reasoner does not implement".into(),
-        });
-    }
     p.tbox_nominals = tbox_nominals;
     p.tbox_at_most = has_at_most;
-    if let Some((a, src)) = axioms.iter().find(|(a, _)| matches!(a, Axiom::HasKey(..))) {
-        let _ = a;
-        return Err(Refusal {
-            axiom: src.map(|s| kb.sources[s].text.clone()),
-            reason: "keys (HasKey) are not supported yet".into(),
-        });
+    for (a, src) in &axioms {
+        let Axiom::HasKey(_, roles, data) = a else {
+            continue;
+        };
+        let text = src.map(|s| kb.sources[s].text.clone());
+        if !data.is_empty() {
+            return Err(Refusal {
+                axiom: text,
+                reason:
+                    "keys on data properties are not supported yet (keys on object properties are)"
+                        .into(),
+            });
+        }
+        if roles.iter().any(|r| !p.simple[r.index()]) {
+            return Err(Refusal {
+                axiom: text,
+                reason: NOT_SIMPLE
+                    .replace("{what}", "each object property of a key (in this reasoner)"),
+            });
+        }
     }
 
     // Absorption.
@@ -368,6 +366,12 @@ pub fn prepare(
                         gcis.push((cs[i], nj));
                     }
                 }
+            }
+            // A trigger fires on an edge; a role with a chain below it also holds along paths
+            // of edges, so its domain goes through the automaton as ⊤ ⊑ ∀r⁻.C instead.
+            Axiom::Domain(r, c) if p.complex[r.index()] => {
+                let all = concepts.all(r.inverse(), *c);
+                gcis.push((ConceptId::TOP, all));
             }
             Axiom::Domain(r, c) => p.triggers[r.index()].push(*c),
             // Ref(r): ⊤ ⊑ ∃r.Self; Irr(r): ⊤ ⊑ ¬∃r.Self (∃r⁻.Self is ∃r.Self).
@@ -549,7 +553,7 @@ fn absorb(
         // below) and, internalised, would put the disjunction ¬{a} ⊔ D on every node.
         Concept::Nominal(a) => p.class_assertions.push((d, a)),
         Concept::Some(r, x) => {
-            if x == ConceptId::TOP {
+            if x == ConceptId::TOP && !p.complex[r.index()] {
                 p.triggers[r.index()].push(d);
             } else {
                 // ∃r.X ⊑ D  ⇔  X ⊑ ∀r⁻.D.

@@ -228,6 +228,8 @@ pub struct Tableau<'a> {
     query_root: Option<NodeId>,
     /// A limit met inside a step; the search loop returns it.
     stopped: Option<Limit>,
+    /// The nodes that blocked others in the last blocking pass.
+    blockers: Vec<NodeId>,
 }
 
 impl<'a> Tableau<'a> {
@@ -255,6 +257,7 @@ impl<'a> Tableau<'a> {
             stats: Stats::default(),
             query_root: None,
             stopped: None,
+            blockers: Vec::new(),
         }
     }
 
@@ -878,6 +881,7 @@ impl<'a> Tableau<'a> {
     fn blocked_all(&mut self) -> Vec<Status> {
         let n = self.g.nodes.len();
         let mut blocked = vec![Status::Open; n];
+        self.blockers.clear();
         // The key holds the node's self-loop roles too: a loop made by merging a successor
         // into its predecessor is in no label, yet may meet the node's ∃ demands.
         type Key = (u64, u64, Vec<RoleId>, Vec<RoleId>);
@@ -906,8 +910,9 @@ impl<'a> Tableau<'a> {
                     self.same_label(x, y) && self.same_label(xp, yp)
                 })
             });
-            if blocker.is_some() {
+            if let Some(y) = blocker {
                 blocked[x] = Status::Blocked;
+                self.blockers.push(y);
             } else {
                 seen.entry(key).or_default().push(x);
             }
@@ -1516,6 +1521,9 @@ impl<'a> Tableau<'a> {
             if self.clash.is_some() {
                 continue;
             }
+            if !self.prep.keys.is_empty() && self.apply_keys() {
+                continue;
+            }
             if self.nondeterministic(&[]) {
                 continue;
             }
@@ -1526,8 +1534,130 @@ impl<'a> Tableau<'a> {
             if self.record {
                 self.record_labels(&blocked);
             }
+            if self.nominal_counting_at_risk() {
+                return Outcome::Unknown(Limit::NominalCounting);
+            }
             return Outcome::Sat(self.model());
         }
+    }
+
+    /// The key rule (DL-safe keys, OWL 2 Direct Semantics §2.3.5; Motik, Sattler & Studer
+    /// 2005): two named individuals in a key's class that share a named filler for each of its
+    /// object properties are the same. A key's class that is not a named class is decided on
+    /// each named individual first (a choose rule), since the model read off the graph may put
+    /// an individual in it without the label saying so. Returns whether a rule applied.
+    fn apply_keys(&mut self) -> bool {
+        let prep = self.prep;
+        let named: Vec<NodeId> = (0..self.g.nodes.len())
+            .filter(|&x| self.g.nodes[x].active && !self.g.nodes[x].names.is_empty())
+            .collect();
+        for (c, roles, _) in &prep.keys {
+            let c = *c;
+            if !matches!(self.concepts.get(c), Concept::Atom(_)) {
+                let nc = self.concepts.not(c);
+                for &x in &named {
+                    if self.has(x, c).is_none() && self.has(x, nc).is_none() {
+                        self.stats.branches += 1;
+                        self.branch(
+                            Choice::Add {
+                                node: x,
+                                options: vec![c, nc],
+                            },
+                            Dep::EMPTY,
+                        );
+                        return true;
+                    }
+                }
+            }
+            let members: Vec<(NodeId, Dep)> = named
+                .iter()
+                .filter_map(|&x| self.has(x, c).map(|d| (x, d)))
+                .collect();
+            for i in 0..members.len() {
+                for j in i + 1..members.len() {
+                    let ((x, dx), (y, dy)) = (members[i], members[j]);
+                    let mut dep = self.deps.union(dx, dy);
+                    let mut all = true;
+                    for &r in roles {
+                        match self.shared_named_filler(x, y, r) {
+                            Some(d) => dep = self.deps.union(dep, d),
+                            None => {
+                                all = false;
+                                break;
+                            }
+                        }
+                    }
+                    if !all {
+                        continue;
+                    }
+                    if let Some(d) = self.distinct(x, y) {
+                        let dd = self.deps.union(d, dep);
+                        self.set_clash(dd);
+                    } else {
+                        self.stats.merges += 1;
+                        let (from, into) = if x < y { (y, x) } else { (x, y) };
+                        self.merge(from, into, dep);
+                    }
+                    return true;
+                }
+            }
+        }
+        false
+    }
+
+    /// A named node that is an r-neighbour of both x and y, with the edges' dependencies.
+    fn shared_named_filler(&mut self, x: NodeId, y: NodeId, r: RoleId) -> Option<Dep> {
+        let xs = self.r_neighbours(x, r);
+        let ys = self.r_neighbours(y, r);
+        for (z, dz) in xs {
+            if self.g.nodes[z].names.is_empty() {
+                continue;
+            }
+            if let Some(&(_, dz2)) = ys.iter().find(|&&(w, _)| w == z) {
+                return Some(self.deps.union(dz, dz2));
+            }
+        }
+        None
+    }
+
+    /// Whether the model read off the finished graph could break a root node's at-most
+    /// restriction. Blocking unravels the graph: each blocked node gets copies of its
+    /// blocker's successors, and a copied node with an edge to a root node (an individual or
+    /// a merged nominal) adds a neighbour there that the ≤-rule never counted. SHOIQ's NN-rule
+    /// (Horrocks & Sattler 2007) prevents this; without it, such a graph proves nothing.
+    fn nominal_counting_at_risk(&self) -> bool {
+        if self.blockers.is_empty() {
+            return false;
+        }
+        let n = self.g.nodes.len();
+        // Strict descendants of a blocker are the nodes that unravelling copies.
+        let mut copied = vec![false; n];
+        let mut is_blocker = vec![false; n];
+        for &b in &self.blockers {
+            is_blocker[b] = true;
+        }
+        for x in 0..n {
+            if let Some(p) = self.g.nodes[x].parent {
+                copied[x] = p < x && (copied[p] || is_blocker[p]);
+            }
+        }
+        for o in 0..n {
+            let node = &self.g.nodes[o];
+            if !node.active || !node.is_root() || node.at_mosts.is_empty() {
+                continue;
+            }
+            for &c in &node.at_mosts {
+                let Concept::AtMost(_, s, f) = *self.concepts.get(c) else {
+                    continue;
+                };
+                for (w, r, _) in self.neighbours(o) {
+                    if copied[w] && self.prep.is_sub(r, s) && self.has(w, f).is_some() {
+                        return true;
+                    }
+                }
+            }
+        }
+        false
     }
 
     fn model(&self) -> Model {

@@ -3,9 +3,10 @@
 //!
 //! Source of the expected answers: HermiT 1.3.8 as bundled in the owlready2 0.51 PyPI
 //! package, run on ontologies from `scripts/gen_sroiq.py` (property chains, ObjectHasSelf,
-//! reflexive, irreflexive, asymmetric and disjoint properties, and in the `n*` files
-//! ObjectHasValue in the TBox); seeds, regeneration command and the known disagreements in
-//! `tests/fixtures/oracle-sroiq/README.md`, method in `docs/oracle.md`.
+//! reflexive, irreflexive, asymmetric and disjoint properties, and in the `n*` and `o*`
+//! files ObjectHasValue and ObjectOneOf in the TBox); seeds, regeneration command and the
+//! disagreements found in `tests/fixtures/oracle-sroiq/README.md`, method in
+//! `docs/oracle.md`.
 
 #[path = "fixtures/oracle/harness.rs"]
 mod harness;
@@ -83,6 +84,7 @@ fn fixtures_cover_the_sroiq_constructs() {
         "TransitiveObjectProperty(",
         "SymmetricObjectProperty(",
         "ObjectHasValue(",
+        "ObjectOneOf(",
         "ObjectExactCardinality(",
     ] {
         let n = text.matches(construct).count();

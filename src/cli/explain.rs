@@ -32,6 +32,9 @@ pub struct ExplainArgs {
     /// Largest number of hitting-set tree nodes (exit code 3 when reached).
     #[arg(long = "max-nodes", default_value_t = 100_000)]
     pub max_nodes: usize,
+    /// How many of the best-ranked explanations get a justification.
+    #[arg(long = "max-justified", value_name = "N", default_value_t = 256)]
+    pub max_justified: usize,
     /// Memory budget of the search's own sets, in MiB (exit code 3 when reached).
     #[arg(long = "max-memory", value_name = "MIB", default_value_t = 512)]
     pub max_memory: usize,
@@ -58,6 +61,7 @@ pub fn run(args: ExplainArgs) -> i32 {
         limits: args.limits.limits(),
         max_tree_nodes: args.max_nodes,
         max_memory: args.max_memory.saturating_mul(1 << 20),
+        max_justified: args.max_justified,
         alpha: args.alpha,
         ..Default::default()
     };

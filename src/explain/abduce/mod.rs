@@ -51,8 +51,10 @@ pub struct ExplainOptions {
     /// Memory budget of the search's own sets, in bytes (the reasoner's graphs are bounded
     /// by `limits.max_nodes`).
     pub max_memory: usize,
-    /// Compute a justification for each explanation.
+    /// Compute a justification for each explanation (up to `max_justified` of them).
     pub justify: bool,
+    /// How many of the best-ranked explanations get a justification.
+    pub max_justified: usize,
     /// Which search to run.
     pub strategy: Strategy,
 }
@@ -77,6 +79,7 @@ impl Default for ExplainOptions {
             max_tree_nodes: 100_000,
             max_memory: 512 << 20,
             justify: true,
+            max_justified: 256,
             strategy: Strategy::Grown,
         }
     }
@@ -417,18 +420,6 @@ fn run(ctx: &mut Ctx, out: &mut ExplainResult) -> Result<(), Stop> {
         }
         let score =
             e.iter().map(|a| prior(kb, a).ln()).sum::<f64>() + degree.max(f64::MIN_POSITIVE).ln();
-        let justification = if ctx.opts.justify && out.limit.is_none() {
-            match justify_explanation(ctx, &mask, &e, &explained) {
-                Ok(j) => j,
-                Err(Stop::Limit(l)) => {
-                    out.limit = Some(l);
-                    Vec::new()
-                }
-                Err(x) => return Err(x),
-            }
-        } else {
-            Vec::new()
-        };
         let mut texts: Vec<String> = e.iter().map(|a| a.text(kb, r.concepts())).collect();
         let mut pairs: Vec<(String, Assertion)> =
             texts.iter().cloned().zip(e.iter().copied()).collect();
@@ -440,7 +431,7 @@ fn run(ctx: &mut Ctx, out: &mut ExplainResult) -> Result<(), Stop> {
             size: e.len(),
             score: round6(score),
             degree: round6(degree),
-            justification,
+            justification: Vec::new(),
         });
     }
     out.explanations.sort_by(|a, b| {
@@ -450,6 +441,20 @@ fn run(ctx: &mut Ctx, out: &mut ExplainResult) -> Result<(), Stop> {
             .then(a.size.cmp(&b.size))
             .then(a.texts.cmp(&b.texts))
     });
+    // Justifications for the best-ranked explanations: QuickXplain costs a reasoner per
+    // test, and past a few hundred explanations nobody reads them all.
+    if ctx.opts.justify {
+        for x in out.explanations.iter_mut().take(ctx.opts.max_justified) {
+            if out.limit.is_some() {
+                break;
+            }
+            match justify_explanation(ctx, &mask, &x.assertions, &explained) {
+                Ok(j) => x.justification = j,
+                Err(Stop::Limit(l)) => out.limit = Some(l),
+                Err(e) => return Err(e),
+            }
+        }
+    }
     Ok(())
 }
 

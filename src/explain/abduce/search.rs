@@ -72,11 +72,12 @@ impl Bits {
     }
 }
 
-/// A model met by the search: the relevant abducibles true in it, and the observation it
-/// falsifies (`None`: a model of KB ∪ T only, which proves T consistent).
+/// A countermodel met by the search: the relevant abducibles true in it (a set T with
+/// KB ∪ T ∪ {¬o} consistent, so every subset of T is consistent with the KB and fails to
+/// entail o), and the observation o it falsifies.
 struct Seen {
     holds: Bits,
-    falsifies: Option<usize>,
+    falsifies: usize,
     size: usize,
 }
 
@@ -300,10 +301,10 @@ pub fn search(
         // not entail its observation, and the model's complement is a valid label.
         let cached = seen
             .iter()
-            .filter(|s| s.falsifies.is_some() && s.holds.holds_all(&set))
+            .filter(|s| s.holds.holds_all(&set))
             .max_by_key(|s| s.size);
         let (t, k) = match cached {
-            Some(s) => (s.holds.clone(), s.falsifies.unwrap_or(0)),
+            Some(s) => (s.holds.clone(), s.falsifies),
             None => {
                 let e = pool.assertions(set.iter().copied());
                 match ctx.countermodel(r, &e, obs)? {
@@ -340,7 +341,7 @@ pub fn search(
                         let size = t.count();
                         seen.push(Seen {
                             holds: t.clone(),
-                            falsifies: Some(k),
+                            falsifies: k,
                             size,
                         });
                         (t, k)
@@ -373,4 +374,34 @@ pub fn search(
         }
     }
     Ok(())
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    #[test]
+    fn family_finds_subsets_by_their_smallest_element() {
+        // Hand-derived: {1, 4} lies inside {0, 1, 4} and {1, 3, 4}, not inside {1, 3}.
+        let mut f = Family::new(6);
+        f.add(vec![1, 4]);
+        f.add(vec![2]);
+        assert!(f.below(&[0, 1, 4]));
+        assert!(f.below(&[1, 3, 4]));
+        assert!(!f.below(&[1, 3]));
+        assert!(f.below(&[2, 5]));
+        assert!(!f.below(&[0, 3, 5]));
+    }
+
+    #[test]
+    fn bits_hold_sets_across_words() {
+        let mut b = Bits::new(130);
+        for i in [0, 63, 64, 129] {
+            b.insert(i);
+        }
+        assert_eq!(b.count(), 4);
+        assert!(b.holds_all(&[0, 64, 129]));
+        assert!(!b.holds_all(&[0, 65]));
+        assert_eq!(b.items().collect::<Vec<_>>(), vec![0, 63, 64, 129]);
+    }
 }

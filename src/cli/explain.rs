@@ -32,6 +32,12 @@ pub struct ExplainArgs {
     /// Largest number of hitting-set tree nodes (exit code 3 when reached).
     #[arg(long = "max-nodes", default_value_t = 100_000)]
     pub max_nodes: usize,
+    /// How many of the best-ranked explanations get a justification.
+    #[arg(long = "max-justified", value_name = "N", default_value_t = 256)]
+    pub max_justified: usize,
+    /// Memory budget of the search's own sets, in MiB (exit code 3 when reached).
+    #[arg(long = "max-memory", value_name = "MIB", default_value_t = 512)]
+    pub max_memory: usize,
     /// Output format.
     #[arg(long, value_enum, default_value = "text")]
     pub format: super::Format,
@@ -54,6 +60,8 @@ pub fn run(args: ExplainArgs) -> i32 {
         max_size: args.max_size,
         limits: args.limits.limits(),
         max_tree_nodes: args.max_nodes,
+        max_memory: args.max_memory.saturating_mul(1 << 20),
+        max_justified: args.max_justified,
         alpha: args.alpha,
         ..Default::default()
     };
@@ -75,9 +83,20 @@ pub fn run(args: ExplainArgs) -> i32 {
         super::Format::Text => print!("{}", result_text(&problem, &result)),
     }
     if let Some(l) = result.limit {
-        eprintln!(
-            "warning: the search stopped early ({l}); the list may be incomplete. Raise --timeout or --max-nodes."
-        );
+        let raise = l
+            .option()
+            .map(|o| format!(" Raise {o} to search further."))
+            .unwrap_or_default();
+        if result.complete {
+            eprintln!(
+                "warning: {l} while ranking; every explanation up to the size bound is listed, but some degrees are lower bounds and some justifications are missing.{raise}"
+            );
+        } else {
+            eprintln!(
+                "warning: the search stopped early ({l}); the {} explanation(s) listed are those found so far, searched smallest first, and larger ones may be missing.{raise}",
+                result.explanations.len()
+            );
+        }
         return super::EXIT_LIMIT;
     }
     super::EXIT_OK
@@ -148,6 +167,7 @@ pub fn result_json(p: &Problem, r: &ExplainResult) -> String {
         "kb_consistent": r.kb_consistent,
         "already_entailed": r.already_entailed,
         "complete": r.complete,
+        "limit": r.limit,
         "explanations": expl,
         "unexplained": unexplained,
         "abnormalities": abn,

@@ -234,9 +234,10 @@ pub fn result_text(p: &Problem, r: &ExplainResult) -> String {
         }
     }
     if !r.complete {
+        let why = r.limit.map(|l| format!(" ({l})")).unwrap_or_default();
         let _ = writeln!(
             s,
-            "INCOMPLETE: a limit stopped the search; more explanations may exist."
+            "INCOMPLETE: a limit stopped the search{why}; the explanations above are those found so far, searched smallest first; more may exist."
         );
     }
     s

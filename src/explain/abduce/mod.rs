@@ -1,19 +1,25 @@
 //! ABox abduction: every minimal set of abducible assertions that, with the knowledge base,
 //! entails the observations.
 //!
-//! Breadth-first hitting-set tree over abducibles with model reuse (Reiter 1987;
-//! Pukancová & Homola 2017): each node E that does not yet entail the observations is
-//! labelled by a model of KB ∪ E ∪ {¬o}; an explanation extending E must contain an abducible
-//! false in that model, so only those become children. Nodes are pruned when KB ∪ E is
-//! inconsistent, when E alone entails the observations (irrelevant), and when they contain a
-//! smaller explanation (non-minimal).
+//! The problem, the options, the result and its ranking live here; the searches in their
+//! own files: `search` (the grown hitting-set tree, the default), `reference` (the plain
+//! hitting-set tree, the yardstick in tests), `relevance` (which abducibles can matter),
+//! `bound` (limits and the memory budget). Both searches are anytime: a limit stops them
+//! cleanly and the explanations found so far, smallest first, are ranked and reported as
+//! incomplete.
+
+mod bound;
+mod reference;
+mod relevance;
+mod search;
+
+pub use bound::SearchLimit;
 
 use super::assertion::Assertion;
 use super::justify::{all_justifications, quickxplain};
 use crate::kb::{Concept, KnowledgeBase, RoleId};
 use crate::reasoner::{Answer, Extra, Limit, Limits, Model, Reasoner, Refusal};
 use serde::Serialize;
-use std::collections::{BTreeSet, VecDeque};
 
 /// An abduction problem over one knowledge base.
 #[derive(Clone, Debug)]
@@ -42,8 +48,26 @@ pub struct ExplainOptions {
     pub limits: Limits,
     /// Largest number of hitting-set tree nodes.
     pub max_tree_nodes: usize,
-    /// Compute a justification for each explanation.
+    /// Memory budget of the search's own sets, in bytes (the reasoner's graphs are bounded
+    /// by `limits.max_nodes`).
+    pub max_memory: usize,
+    /// Compute a justification for each explanation (up to `max_justified` of them).
     pub justify: bool,
+    /// How many of the best-ranked explanations get a justification.
+    pub max_justified: usize,
+    /// Which search to run.
+    pub strategy: Strategy,
+}
+
+/// The search algorithm; both return the same explanations.
+#[derive(Clone, Copy, Debug, Default, PartialEq, Eq)]
+pub enum Strategy {
+    /// Hitting-set tree labelled by grown countermodels over the relevant abducibles.
+    #[default]
+    Grown,
+    /// Hitting-set tree labelled by the tableau's first countermodel over every abducible
+    /// (the earlier search, kept as the reference in tests).
+    Reference,
 }
 
 impl Default for ExplainOptions {
@@ -53,7 +77,10 @@ impl Default for ExplainOptions {
             alpha: 0.5,
             limits: Limits::default(),
             max_tree_nodes: 100_000,
+            max_memory: 512 << 20,
             justify: true,
+            max_justified: 256,
+            strategy: Strategy::Grown,
         }
     }
 }
@@ -95,7 +122,7 @@ pub struct ExplainResult {
     /// Whether every candidate up to the size bound was decided.
     pub complete: bool,
     /// The limit that stopped the search, if any.
-    pub limit: Option<Limit>,
+    pub limit: Option<SearchLimit>,
     /// Ranked explanations.
     pub explanations: Vec<Explanation>,
     /// The observations the explanations account for.
@@ -213,29 +240,6 @@ impl Ctx<'_> {
     }
 }
 
-/// Whether an abducible holds in a model read off a completion graph (atoms hold exactly
-/// when in the label; other assertions are treated as not holding, which only costs work).
-fn holds(m: &Model, r: &Reasoner, a: &Assertion) -> bool {
-    match *a {
-        Assertion::Class(c, i) => {
-            let Some(label) = m.labels.get(i.index()) else {
-                return false;
-            };
-            match r.concepts().get(c) {
-                Concept::NotAtom(x) => {
-                    let atom = r.concepts().find(&Concept::Atom(*x));
-                    atom.is_none_or(|at| !label.contains(&at))
-                }
-                _ => label.contains(&c),
-            }
-        }
-        Assertion::Role(role, x, y) => m.edges.iter().any(|&(s, a, b)| {
-            (a == x && b == y && r.prepared().is_sub(s, role))
-                || (a == y && b == x && r.prepared().is_sub(s.inverse(), role))
-        }),
-    }
-}
-
 /// Solves an abduction problem.
 pub fn explain(problem: &Problem, opts: &ExplainOptions) -> Result<ExplainResult, Refusal> {
     let mut ctx = Ctx {
@@ -261,11 +265,17 @@ pub fn explain(problem: &Problem, opts: &ExplainOptions) -> Result<ExplainResult
 
 enum Stop {
     Refused(Refusal),
-    Limit(Limit),
+    Limit(SearchLimit),
 }
 
 impl From<Limit> for Stop {
     fn from(l: Limit) -> Self {
+        Stop::Limit(l.into())
+    }
+}
+
+impl From<SearchLimit> for Stop {
+    fn from(l: SearchLimit) -> Self {
         Stop::Limit(l)
     }
 }
@@ -326,24 +336,35 @@ fn run(ctx: &mut Ctx, out: &mut ExplainResult) -> Result<(), Stop> {
         out.explained = obs;
         return Ok(());
     }
-    let mut found = search(ctx, &mut r, &obs)?;
+    let (mut sets, mut stop) = find(ctx, &mut r, &mask, &obs)?;
     let mut explained = obs.clone();
-    if found.0.is_empty() && obs.len() > 1 {
+    if sets.is_empty() && stop.is_none() && obs.len() > 1 {
         // No explanation of all: keep the observations that can be explained one by one.
         let mut ok = Vec::new();
         for o in &obs {
             let single = vec![*o];
-            if ctx.entails(&mut r, &[], &single)? || !search(ctx, &mut r, &single)?.0.is_empty() {
+            if ctx.entails(&mut r, &[], &single)? {
+                ok.push(*o);
+                continue;
+            }
+            let (one, st) = find(ctx, &mut r, &mask, &single)?;
+            if !one.is_empty() {
                 ok.push(*o);
             }
+            if st.is_some() {
+                stop = st;
+                break;
+            }
         }
-        if !ok.is_empty() && ok.len() < obs.len() {
-            found = search(ctx, &mut r, &ok)?;
+        if stop.is_none() && !ok.is_empty() && ok.len() < obs.len() {
+            (sets, stop) = find(ctx, &mut r, &mask, &ok)?;
             explained = ok;
         }
     }
-    let (sets, complete) = found;
-    out.complete &= complete;
+    if let Some(l) = stop {
+        out.complete = false;
+        out.limit = Some(l);
+    }
     if sets.is_empty() {
         out.unexplained = obs.clone();
         explained.clear();
@@ -370,13 +391,27 @@ fn run(ctx: &mut Ctx, out: &mut ExplainResult) -> Result<(), Stop> {
     for set in sets {
         let e: Vec<Assertion> = set.iter().map(|&i| ctx.problem.abducibles[i]).collect();
         // The largest level whose cut still entails (entailment shrinks as α grows).
+        // A cut that keeps the same axioms as the search's needs no test. After a limit,
+        // a test that cannot finish leaves the degree at the last level proven (a lower
+        // bound) and the justification empty.
         let (mut lo, mut hi) = (0usize, levels.len());
         let mut degree = alpha;
         while lo < hi {
             let mid = (lo + hi) / 2;
             let m = ctx.mask(levels[mid], &suspended);
-            let mut rm = ctx.reasoner(kb, &m)?;
-            if ctx.entails(&mut rm, &e, &explained)? {
+            let entailed = if m == mask {
+                true
+            } else {
+                let mut rm = ctx.reasoner(kb, &m)?;
+                match ctx.entails(&mut rm, &e, &explained) {
+                    Ok(b) => b,
+                    Err(l) => {
+                        out.limit.get_or_insert(l.into());
+                        break;
+                    }
+                }
+            };
+            if entailed {
                 degree = levels[mid];
                 lo = mid + 1;
             } else {
@@ -385,11 +420,6 @@ fn run(ctx: &mut Ctx, out: &mut ExplainResult) -> Result<(), Stop> {
         }
         let score =
             e.iter().map(|a| prior(kb, a).ln()).sum::<f64>() + degree.max(f64::MIN_POSITIVE).ln();
-        let justification = if ctx.opts.justify {
-            justify_explanation(ctx, &mask, &e, &explained)?
-        } else {
-            Vec::new()
-        };
         let mut texts: Vec<String> = e.iter().map(|a| a.text(kb, r.concepts())).collect();
         let mut pairs: Vec<(String, Assertion)> =
             texts.iter().cloned().zip(e.iter().copied()).collect();
@@ -401,7 +431,7 @@ fn run(ctx: &mut Ctx, out: &mut ExplainResult) -> Result<(), Stop> {
             size: e.len(),
             score: round6(score),
             degree: round6(degree),
-            justification,
+            justification: Vec::new(),
         });
     }
     out.explanations.sort_by(|a, b| {
@@ -411,178 +441,45 @@ fn run(ctx: &mut Ctx, out: &mut ExplainResult) -> Result<(), Stop> {
             .then(a.size.cmp(&b.size))
             .then(a.texts.cmp(&b.texts))
     });
+    // Justifications for the best-ranked explanations: QuickXplain costs a reasoner per
+    // test, and past a few hundred explanations nobody reads them all.
+    if ctx.opts.justify {
+        for x in out.explanations.iter_mut().take(ctx.opts.max_justified) {
+            if out.limit.is_some() {
+                break;
+            }
+            match justify_explanation(ctx, &mask, &x.assertions, &explained) {
+                Ok(j) => x.justification = j,
+                Err(Stop::Limit(l)) => out.limit = Some(l),
+                Err(e) => return Err(e),
+            }
+        }
+    }
     Ok(())
+}
+
+/// Runs the chosen search; a limit ends it with the explanations found so far.
+fn find(
+    ctx: &mut Ctx,
+    r: &mut Reasoner,
+    mask: &[bool],
+    obs: &[Assertion],
+) -> Result<(Vec<Vec<usize>>, Option<SearchLimit>), Stop> {
+    let mut found = Vec::new();
+    let done = match ctx.opts.strategy {
+        Strategy::Grown => search::search(ctx, r, mask, obs, &mut found),
+        Strategy::Reference => reference::search(ctx, r, obs, &mut found),
+    };
+    match done {
+        Ok(()) => Ok((found, None)),
+        Err(Stop::Limit(l)) => Ok((found, Some(l))),
+        Err(x) => Err(x),
+    }
 }
 
 fn round6(x: f64) -> f64 {
     let y = (x * 1e6).round() / 1e6;
     if y == 0.0 { 0.0 } else { y }
-}
-
-/// The hitting-set search; returns the explanations (abducible indices) and completeness.
-fn search(
-    ctx: &mut Ctx,
-    r: &mut Reasoner,
-    obs: &[Assertion],
-) -> Result<(Vec<Vec<usize>>, bool), Stop> {
-    let abd = ctx.problem.abducibles.clone();
-    let kb = &ctx.problem.kb;
-    // An empty KB, for the relevance test (E alone must not entail O).
-    let none = vec![false; kb.axioms.len()];
-    let mut empty = ctx.reasoner(kb, &none)?;
-    let mut found: Vec<Vec<usize>> = Vec::new();
-    let mut visited: BTreeSet<Vec<usize>> = BTreeSet::new();
-    let mut queue: VecDeque<Vec<usize>> = VecDeque::new();
-    queue.push_back(Vec::new());
-    let component = components(r, &abd);
-    // Lower-bound pruning. When unconnected parts of the ABox are independent (no TBox
-    // nominals), an observation that the KB alone does not entail stays unexplained until
-    // the set holds an abducible about its part; so a set needs at least one more abducible
-    // for each such part, and children that cannot fit within `max_size` are dropped.
-    let mut needy: Vec<usize> = Vec::new();
-    if !component.is_empty() {
-        for o in obs {
-            if !ctx.entails(r, &[], std::slice::from_ref(o))?
-                && let Some(&c) = component.get(&o.individuals()[0])
-            {
-                needy.push(c);
-            }
-        }
-        needy.sort_unstable();
-        needy.dedup();
-    }
-    let parts_of = |i: usize| -> Vec<usize> {
-        abd[i]
-            .individuals()
-            .iter()
-            .filter_map(|x| component.get(x).copied())
-            .collect()
-    };
-    let abd_parts: Vec<Vec<usize>> = (0..abd.len()).map(parts_of).collect();
-    let lower_bound = |set: &[usize]| -> usize {
-        needy
-            .iter()
-            .filter(|c| !set.iter().any(|&i| abd_parts[i].contains(c)))
-            .count()
-    };
-    while let Some(set) = queue.pop_front() {
-        if !visited.insert(set.clone()) {
-            continue;
-        }
-        if found
-            .iter()
-            .any(|f| f.iter().all(|x| set.binary_search(x).is_ok()))
-        {
-            continue;
-        }
-        ctx.stats.tree_nodes += 1;
-        if ctx.stats.tree_nodes as usize > ctx.opts.max_tree_nodes {
-            return Err(Stop::Limit(Limit::Nodes));
-        }
-        let e: Vec<Assertion> = set.iter().map(|&i| abd[i]).collect();
-        if !set.is_empty() {
-            let (ok, _) = ctx.consistent(r, &e)?;
-            if !ok {
-                continue;
-            }
-            if ctx.entails(&mut empty, &e, obs)? {
-                continue;
-            }
-        }
-        match ctx.countermodel(r, &e, obs)? {
-            None => {
-                if !set.is_empty() {
-                    found.push(set);
-                }
-            }
-            Some((m, k)) => {
-                if set.len() >= ctx.opts.max_size {
-                    continue;
-                }
-                let comp = component.get(&obs[k].individuals()[0]).copied();
-                for (i, a) in abd.iter().enumerate() {
-                    if set.contains(&i) || holds(&m, r, a) {
-                        continue;
-                    }
-                    // An assertion about individuals unconnected to the failing observation's
-                    // cannot help entail it (SHIQ without TBox nominals keeps unconnected
-                    // parts of the ABox independent); it could only make KB ∪ E
-                    // inconsistent, and such sets are pruned anyway.
-                    if let Some(c) = comp
-                        && a.individuals().iter().all(|x| component.get(x) != Some(&c))
-                    {
-                        continue;
-                    }
-                    let mut child = set.clone();
-                    child.push(i);
-                    child.sort_unstable();
-                    if child.len() + lower_bound(&child) > ctx.opts.max_size {
-                        continue;
-                    }
-                    if !visited.contains(&child) {
-                        queue.push_back(child);
-                    }
-                }
-            }
-        }
-    }
-    Ok((found, true))
-}
-
-/// Connected components of the individuals through role assertions, equalities and role
-/// abducibles; empty (no pruning) when the TBox has nominals, which connect everything.
-fn components(
-    r: &Reasoner,
-    abd: &[Assertion],
-) -> std::collections::HashMap<crate::kb::IndividualId, usize> {
-    let p = r.prepared();
-    let mut out = std::collections::HashMap::new();
-    if p.tbox_nominals {
-        return out;
-    }
-    let n = p.n_individuals;
-    let mut parent: Vec<usize> = (0..n).collect();
-    fn root(p: &mut [usize], mut i: usize) -> usize {
-        while p[i] != i {
-            p[i] = p[p[i]];
-            i = p[i];
-        }
-        i
-    }
-    let join = |a: usize, b: usize, parent: &mut Vec<usize>| {
-        if a < n && b < n {
-            let (x, y) = (root(parent, a), root(parent, b));
-            parent[x] = y;
-        }
-    };
-    for &(_, a, b) in &p.role_assertions {
-        join(a.index(), b.index(), &mut parent);
-    }
-    for &(a, b) in &p.same {
-        join(a.index(), b.index(), &mut parent);
-    }
-    // A negative property assertion or an enumeration also ties individuals together.
-    for &(c, a) in &p.class_assertions {
-        let mut stack = vec![c];
-        while let Some(x) = stack.pop() {
-            match r.concepts().get(x) {
-                Concept::Nominal(b) | Concept::NotNominal(b) => {
-                    join(a.index(), b.index(), &mut parent)
-                }
-                _ => stack.extend_from_slice(r.concepts().children(x)),
-            }
-        }
-    }
-    for a in abd {
-        if let Assertion::Role(_, x, y) = *a {
-            join(x.index(), y.index(), &mut parent);
-        }
-    }
-    for i in 0..n {
-        let c = root(&mut parent, i);
-        out.insert(crate::kb::IndividualId(i as u32), c);
-    }
-    out
 }
 
 /// One minimal set of enabled axioms that, with E, entails the observations (QuickXplain).
@@ -593,7 +490,14 @@ fn justify_explanation(
     obs: &[Assertion],
 ) -> Result<Vec<usize>, Stop> {
     let kb = &ctx.problem.kb;
-    let items: Vec<usize> = (0..mask.len()).filter(|&i| mask[i]).collect();
+    // QuickXplain returns the preferred minimal subset for the item order (Junker 2004);
+    // the ⊥-module of sig(E ∪ O) holds every justification, so searching it finds the same
+    // one with far fewer tests. Should the module not entail (it always should), the whole
+    // KB is searched.
+    let mut seed = e.to_vec();
+    seed.extend_from_slice(obs);
+    let module = relevance::bottom_module(kb, mask, &seed);
+    let all: Vec<usize> = (0..mask.len()).filter(|&i| mask[i]).collect();
     let mut refused = None;
     let mut test = |s: &[usize]| -> Result<bool, Limit> {
         let mut m = vec![false; mask.len()];
@@ -609,7 +513,10 @@ fn justify_explanation(
         };
         ctx.entails(&mut rr, e, obs)
     };
-    let j = quickxplain(&items, &mut test)?;
+    let mut j = quickxplain(&module, &mut test)?;
+    if j.is_none() && module.len() < all.len() {
+        j = quickxplain(&all, &mut test)?;
+    }
     if let Some(x) = refused {
         return Err(Stop::Refused(x));
     }
@@ -663,7 +570,7 @@ fn diagnose(ctx: &mut Ctx, mask: &[bool], defaults: &[usize]) -> Result<Option<D
     }
     let (conflicts, complete) = all_justifications(&positions, &mut test, 2_000)?;
     if !complete {
-        return Err(Stop::Limit(Limit::Nodes));
+        return Err(Stop::Limit(SearchLimit::TreeNodes));
     }
     let diagnoses = super::justify::minimal_hitting_sets(&conflicts);
     let Some(best) = diagnoses

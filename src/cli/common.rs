@@ -1,7 +1,7 @@
 //! Helpers shared by the commands: loading a knowledge base with messages and exit codes,
 //! limits from options, atomic writes.
 
-use crate::kb::{KnowledgeBase, owl};
+use crate::kb::{KnowledgeBase, load};
 use crate::reasoner::{Limits, Reasoner};
 use crate::render::text::refusal_message;
 use clap::Args;
@@ -50,11 +50,11 @@ impl LimitOptions {
 
 /// Loads ontologies, printing warnings; on error prints the message and returns exit code 2.
 pub fn load_kb(paths: &[PathBuf], opts: &KbOptions) -> Result<KnowledgeBase, i32> {
-    let lo = owl::LoadOptions {
+    let lo = load::LoadOptions {
         import_dirs: opts.import_dirs.clone(),
         lenient: opts.lenient,
     };
-    match owl::load(paths, &lo) {
+    match load::load(paths, &lo) {
         Ok(kb) => {
             for w in &kb.warnings {
                 eprintln!("warning: {w}");

@@ -3,7 +3,7 @@
 use super::common::{KbOptions, LimitOptions, load_kb};
 use crate::explain::case::{self, ObservationSource};
 use crate::explain::{ExplainOptions, ExplainResult, Problem, explain};
-use crate::kb::owl;
+use crate::kb::load;
 use crate::render::text::{refusal_message, result_text, source_texts};
 use clap::Args;
 use std::path::PathBuf;
@@ -108,7 +108,7 @@ pub fn build_problem(args: &ExplainArgs) -> Result<Problem, i32> {
             "give the observations: --observations OBS.ofn or --facts FACTS.json".into(),
         ));
     };
-    let lo = owl::LoadOptions {
+    let lo = load::LoadOptions {
         import_dirs: args.kb_opts.import_dirs.clone(),
         lenient: false,
     };

@@ -3,7 +3,7 @@
 //! `crate::shell`.
 
 use super::common::KbOptions;
-use crate::kb::owl::LoadOptions;
+use crate::kb::load::LoadOptions;
 use crate::shell::{COMMANDS, Session, run_script, syntax};
 use clap::Args;
 use rustyline::completion::{Completer, FilenameCompleter, Pair};

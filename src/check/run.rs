@@ -23,6 +23,8 @@ use std::time::{Duration, Instant};
 pub struct RunOptions {
     /// Folders searched for imported ontologies.
     pub import_dirs: Vec<PathBuf>,
+    /// An XML catalog asked first for every import.
+    pub catalog: Option<PathBuf>,
     /// KB files replaced by file name (the baseline's older versions).
     pub replace: BTreeMap<String, PathBuf>,
     /// Run the abduction search even when no expectation needs it (for comparisons).
@@ -40,6 +42,7 @@ impl Default for RunOptions {
     fn default() -> Self {
         RunOptions {
             import_dirs: Vec::new(),
+            catalog: None,
             replace: BTreeMap::new(),
             explain_always: false,
             timeout: Duration::from_secs(120),
@@ -182,6 +185,7 @@ pub fn run_suite(cases: &[CaseSpec], opts: &RunOptions) -> Vec<CaseResult> {
     let lo = load::LoadOptions {
         import_dirs: opts.import_dirs.clone(),
         lenient: false,
+        catalog: opts.catalog.clone(),
     };
     let loaded: BTreeMap<Vec<PathBuf>, Result<Arc<KnowledgeBase>, String>> = sets
         .into_par_iter()

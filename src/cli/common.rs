@@ -17,6 +17,10 @@ pub struct KbOptions {
     /// Drop axioms outside the supported logic with a warning instead of failing.
     #[arg(long)]
     pub lenient: bool,
+    /// XML catalog (OASIS) that maps imported ontology IRIs to files; a
+    /// `catalog-v001.xml` beside an ontology is used as well.
+    #[arg(long, value_name = "FILE")]
+    pub catalog: Option<PathBuf>,
 }
 
 /// Resource limits shared by the commands that reason.
@@ -53,6 +57,7 @@ pub fn load_kb(paths: &[PathBuf], opts: &KbOptions) -> Result<KnowledgeBase, i32
     let lo = load::LoadOptions {
         import_dirs: opts.import_dirs.clone(),
         lenient: opts.lenient,
+        catalog: opts.catalog.clone(),
     };
     match load::load(paths, &lo) {
         Ok(kb) => {

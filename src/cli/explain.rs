@@ -111,6 +111,7 @@ pub fn build_problem(args: &ExplainArgs) -> Result<Problem, i32> {
     let lo = load::LoadOptions {
         import_dirs: args.kb_opts.import_dirs.clone(),
         lenient: false,
+        catalog: args.kb_opts.catalog.clone(),
     };
     let (problem, warnings) =
         case::build_problem(&kb, source, args.abducibles.as_deref(), &lo).map_err(bad)?;

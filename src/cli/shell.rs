@@ -61,6 +61,7 @@ pub fn run(args: ShellArgs) -> i32 {
     let mut session = Session::new(LoadOptions {
         import_dirs: args.kb_opts.import_dirs.clone(),
         lenient: args.kb_opts.lenient,
+        catalog: args.kb_opts.catalog.clone(),
     });
     session.timeout = args
         .timeout

@@ -288,6 +288,7 @@ pub fn build_problem(
             let lo = crate::kb::load::LoadOptions {
                 import_dirs: load.import_dirs.clone(),
                 lenient: false,
+                catalog: load.catalog.clone(),
             };
             crate::kb::load::load_into(&mut kb, &[path.to_path_buf()], &lo)
                 .map_err(|e| e.to_string())?;

@@ -3,6 +3,7 @@
 
 use super::parse::parse_bytes_strict;
 use super::split_prefixes;
+use super::syntax::Syntax;
 use crate::kb::KbError;
 use horned_owl::io::ofn::writer::AsFunctional;
 use horned_owl::model::{AnnotatedComponent, ArcStr, Component};
@@ -87,4 +88,77 @@ pub fn write_merged(
         file: "(save)".into(),
         reason: e.to_string(),
     })
+}
+
+/// Rewrites one document (`name` for messages, `text` in any syntax we read) in `to`,
+/// keeping every component and its annotations. The round-trip tests and the syntax
+/// conversions use it; prefixes given as (name, IRI) are declared where `to` has them.
+pub fn write_document(
+    name: &str,
+    text: &str,
+    to: Syntax,
+    prefixes: &[(String, String)],
+) -> Result<String, KbError> {
+    use horned_owl::ontology::component_mapped::ComponentMappedOntology;
+    let parsed = parse_bytes_strict(name.to_string(), text.as_bytes().to_vec())?;
+    let components = if to.is_rdf() {
+        pairwise_disjoint(parsed.components)
+    } else {
+        parsed.components
+    };
+    let ont: ComponentMappedOntology<ArcStr, horned_owl::model::ArcAnnotatedComponent> =
+        components.into_iter().collect();
+    let mut mapping = horned_owl::curie::PrefixMapping::default();
+    for (p, iri) in prefixes {
+        if p.is_empty() {
+            mapping.set_default(iri);
+        } else {
+            let _ = mapping.add_prefix(p, iri);
+        }
+    }
+    let out = match to {
+        Syntax::Functional => horned_owl::io::ofn::writer::write(Vec::new(), &ont, Some(&mapping)),
+        Syntax::OwlXml => horned_owl::io::owx::writer::write(Vec::new(), &ont, Some(&mapping)),
+        Syntax::RdfXml => horned_owl::io::rdf::writer::write(Vec::new(), &ont, Some(&mapping)),
+        Syntax::Turtle => horned_owl::io::rdf::writer::write_to_rdf_format(Vec::new(), &ont, "ttl"),
+        Syntax::NTriples => {
+            horned_owl::io::rdf::writer::write_to_rdf_format(Vec::new(), &ont, "nt")
+        }
+        Syntax::Manchester => horned_owl::io::omn::writer::write(Vec::new(), &ont, Some(&mapping)),
+    }
+    .map_err(|e| KbError::Syntax {
+        file: name.to_string(),
+        reason: format!("cannot write {}: {e}", to.name()),
+    })?;
+    String::from_utf8(out).map_err(|e| KbError::Syntax {
+        file: name.to_string(),
+        reason: e.to_string(),
+    })
+}
+
+/// horned-owl 4.0.0 writes DisjointClasses(C1 … Cn) to RDF as C1 owl:disjointWith Ci
+/// only, which loses Ci ⊓ Cj for 1 < i < j; the axiom is pairwise disjointness (OWL 2
+/// Direct Semantics, Table 5), so it is written here as one binary axiom per pair, each
+/// with the axiom's annotations.
+fn pairwise_disjoint(
+    components: Vec<AnnotatedComponent<ArcStr>>,
+) -> Vec<AnnotatedComponent<ArcStr>> {
+    use horned_owl::model::DisjointClasses;
+    let mut out = Vec::with_capacity(components.len());
+    for ac in components {
+        match &ac.component {
+            Component::DisjointClasses(DisjointClasses(members)) if members.len() > 2 => {
+                for (i, a) in members.iter().enumerate() {
+                    for b in &members[i + 1..] {
+                        out.push(AnnotatedComponent {
+                            component: DisjointClasses(vec![a.clone(), b.clone()]).into(),
+                            ann: ac.ann.clone(),
+                        });
+                    }
+                }
+            }
+            _ => out.push(ac),
+        }
+    }
+    out
 }

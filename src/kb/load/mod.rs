@@ -1,18 +1,23 @@
-//! Loading OWL 2 ontologies (functional syntax, OWL/XML, RDF/XML) through horned-owl:
-//! the files given, their imports, and axioms typed as text. Converting what was read is
-//! `kb/owl.rs`'s job.
+//! Loading OWL 2 ontologies through horned-owl: the files given, their imports closure,
+//! and axioms typed as text. The syntax of each document is told by its content
+//! (`syntax.rs`); every document is read with the declarations of all the others
+//! (`parse.rs`). Converting what was read is `kb/owl.rs`'s job.
 
 pub mod document;
+mod entities;
 mod imports;
 mod parse;
 mod rdf_lists;
+pub mod syntax;
 
 use super::owl::{Converter, OWL, XSD};
 use super::{KbError, KnowledgeBase};
-use horned_owl::io::ResourceType;
-use horned_owl::model::{AnnotatedComponent, ArcStr, Component};
-use imports::{canonical, resolve_import};
-use parse::{Parsed, accept_unreadable, locate, parse_file, parse_text, with_standard_prefixes};
+use horned_owl::model::Component;
+use imports::{Naming, Resolver, canonical, find_cycle, naming};
+use parse::{
+    Opened, accept_unreadable, locate, on_parser_thread, open_file, read_functional,
+    with_standard_prefixes,
+};
 use std::collections::BTreeSet;
 use std::path::PathBuf;
 
@@ -23,6 +28,8 @@ pub struct LoadOptions {
     pub import_dirs: Vec<PathBuf>,
     /// Drop refused axioms with a warning instead of failing.
     pub lenient: bool,
+    /// An XML catalog asked first for every import (`--catalog FILE`).
+    pub catalog: Option<PathBuf>,
 }
 
 /// Loads ontology files (and their imports) into a fresh knowledge base.
@@ -32,131 +39,83 @@ pub fn load(paths: &[PathBuf], opts: &LoadOptions) -> Result<KnowledgeBase, KbEr
     Ok(kb)
 }
 
+/// One document of the imports closure.
+struct Document {
+    path: PathBuf,
+    opened: Opened,
+}
+
+impl Document {
+    /// How the document is called in messages: its ontology IRI, else its file.
+    fn name(&self) -> String {
+        self.opened
+            .iri
+            .clone()
+            .unwrap_or_else(|| self.path.display().to_string())
+    }
+
+    /// How well `import` names this document (by ontology IRI or version IRI).
+    fn named_by(&self, import: &str) -> Option<Naming> {
+        [&self.opened.iri, &self.opened.version_iri]
+            .into_iter()
+            .flatten()
+            .filter_map(|n| naming(import, n))
+            .min()
+    }
+}
+
 /// Loads ontology files (and their imports) into an existing knowledge base.
 pub fn load_into(
     kb: &mut KnowledgeBase,
     paths: &[PathBuf],
     opts: &LoadOptions,
 ) -> Result<(), KbError> {
-    // Parse every given file first, so that imports naming one of them resolve to it.
-    let mut given: Vec<(PathBuf, Parsed)> = Vec::new();
-    for p in paths {
-        let parsed = parse_file(p)?;
-        accept_unreadable(kb, p, &parsed, opts.lenient)?;
-        given.push((p.clone(), parsed));
-    }
-    let mut loaded_iris: BTreeSet<String> = BTreeSet::new();
-    let mut loaded_paths: BTreeSet<PathBuf> = BTreeSet::new();
-    for (p, _) in &given {
-        loaded_paths.insert(canonical(p));
-    }
-    for (_, parsed) in &given {
-        if let Some(iri) = &parsed.iri {
-            loaded_iris.insert(iri.clone());
-        }
-    }
-    let given_iris: Vec<Option<String>> = given.iter().map(|(_, p)| p.iri.clone()).collect();
-    let mut queue: Vec<(PathBuf, Parsed, Vec<String>)> = Vec::new();
-    for (p, parsed) in given {
-        let chain = vec![
-            parsed
-                .iri
-                .clone()
-                .unwrap_or_else(|| p.display().to_string()),
-        ];
-        queue.push((p, parsed, chain));
-    }
-    let mut idx = 0;
-    while idx < queue.len() {
-        let (path, imports, chain) = {
-            let (p, parsed, chain) = &queue[idx];
-            (p.clone(), parsed.imports.clone(), chain.clone())
-        };
-        for imp in imports {
-            if chain.contains(&imp) {
-                return Err(KbError::ImportCycle {
-                    file: path.display().to_string(),
-                    chain: format!("{} -> {}", chain.join(" -> "), imp),
-                });
-            }
-            if loaded_iris.contains(&imp)
-                || given_iris
-                    .iter()
-                    .any(|g| g.as_deref() == Some(imp.as_str()))
-            {
-                continue;
-            }
-            match resolve_import(&imp, &path, &opts.import_dirs) {
-                Some(found) => {
-                    let key = canonical(&found);
-                    if loaded_paths.contains(&key) {
-                        // The same file under another IRI: a cycle when it is on the chain.
-                        if queue.iter().any(|(qp, qparsed, _)| {
-                            canonical(qp) == key
-                                && qparsed.iri.as_ref().is_some_and(|i| chain.contains(i))
-                        }) {
-                            return Err(KbError::ImportCycle {
-                                file: path.display().to_string(),
-                                chain: format!("{} -> {}", chain.join(" -> "), imp),
-                            });
-                        }
-                        continue;
-                    }
-                    let parsed = parse_file(&found)?;
-                    accept_unreadable(kb, &found, &parsed, opts.lenient)?;
-                    if let Some(i) = &parsed.iri {
-                        if chain.contains(i) {
-                            return Err(KbError::ImportCycle {
-                                file: found.display().to_string(),
-                                chain: format!("{} -> {}", chain.join(" -> "), i),
-                            });
-                        }
-                        loaded_iris.insert(i.clone());
-                    }
-                    loaded_iris.insert(imp.clone());
-                    loaded_paths.insert(key);
-                    let mut c2 = chain.clone();
-                    c2.push(imp.clone());
-                    queue.push((found, parsed, c2));
-                }
-                None => {
-                    kb.warnings.push(format!(
-                        "{}: import <{}> not found beside the file or in --import-dir; going on without it, so results may be incomplete",
-                        path.display(),
-                        imp
-                    ));
-                    kb.incomplete = true;
-                    loaded_iris.insert(imp);
-                }
-            }
-        }
-        idx += 1;
-    }
-    // Strict RDF/XML: every class and property used must be declared somewhere in the
-    // loaded files (OWL 2 Mapping to RDF Graphs, §3.1.1, needs declarations to parse).
+    let first = paths
+        .first()
+        .map(|p| p.display().to_string())
+        .unwrap_or_default();
+    let mut warnings = Vec::new();
+    let mut missing = false;
+    let (docs, all) = on_parser_thread(&first, || {
+        let docs = read_closure(&mut warnings, &mut missing, paths, opts)?;
+        // Every document is read with the declarations of all the others: its imports
+        // closure and the files given beside it.
+        let mut all: Vec<Component<horned_owl::model::ArcStr>> = docs
+            .iter()
+            .flat_map(|d| d.opened.declarations.iter().cloned())
+            .collect();
+        all.sort();
+        all.dedup();
+        let docs = docs
+            .into_iter()
+            .map(|d| Ok((d.path, d.opened.finish(&all)?)))
+            .collect::<Result<Vec<_>, KbError>>()?;
+        Ok((docs, all))
+    })?;
+    kb.warnings.extend(warnings);
+    kb.incomplete |= missing;
     let mut declared: BTreeSet<String> = BTreeSet::new();
-    for (_, parsed, _) in &queue {
-        for ac in &parsed.components {
-            match &ac.component {
-                Component::DeclareClass(c) => {
-                    declared.insert(c.0.to_string());
-                }
-                Component::DeclareObjectProperty(p) => {
-                    declared.insert(p.0.to_string());
-                }
-                Component::DeclareDataProperty(p) => {
-                    declared.insert(p.0.to_string());
-                }
-                _ => {}
+    for c in &all {
+        match c {
+            Component::DeclareClass(c) => {
+                declared.insert(c.0.to_string());
             }
+            Component::DeclareObjectProperty(p) => {
+                declared.insert(p.0.to_string());
+            }
+            Component::DeclareDataProperty(p) => {
+                declared.insert(p.0.to_string());
+            }
+            _ => {}
         }
     }
     let mut first_seen: Vec<(String, bool, usize, usize, usize)> = Vec::new();
-    for (path, parsed, _) in queue {
+    for (path, parsed) in docs {
         let file = path.display().to_string();
+        accept_unreadable(kb, &path, &parsed, opts.lenient)?;
         first_seen.push((
             file.clone(),
-            parsed.rdf,
+            parsed.syntax.is_rdf(),
             kb.vocab.classes.len(),
             kb.vocab.props.len(),
             kb.vocab.data_props.len(),
@@ -196,7 +155,7 @@ pub fn load_into(
             .collect();
         if !missing.is_empty() {
             let msg = format!(
-                "undeclared entit{} in strict RDF/XML: {}. Declare {} (rdf:type owl:Class, owl:ObjectProperty or owl:DatatypeProperty)",
+                "undeclared entit{} in an RDF document: {}. Declare {} (rdf:type owl:Class, owl:ObjectProperty or owl:DatatypeProperty)",
                 if missing.len() == 1 { "y" } else { "ies" },
                 missing
                     .iter()
@@ -221,6 +180,111 @@ pub fn load_into(
         .map(super::ClassId)
         .collect();
     Ok(())
+}
+
+/// Opens the files given and, breadth first, every document they import; refuses an
+/// import cycle, naming it, and warns about imports that cannot be found.
+fn read_closure(
+    warnings: &mut Vec<String>,
+    missing: &mut bool,
+    paths: &[PathBuf],
+    opts: &LoadOptions,
+) -> Result<Vec<Document>, KbError> {
+    let mut resolver = Resolver::new(opts.catalog.as_deref(), &opts.import_dirs)?;
+    let mut docs: Vec<Document> = Vec::new();
+    for p in paths {
+        resolver.look_beside(p)?;
+        docs.push(Document {
+            path: p.clone(),
+            opened: open_file(p)?,
+        });
+    }
+    // edges[i]: the documents that document i imports.
+    let mut edges: Vec<Vec<usize>> = vec![Vec::new(); docs.len()];
+    let mut i = 0;
+    while i < docs.len() {
+        let importer = docs[i].path.clone();
+        for imp in docs[i].opened.imports.clone() {
+            let known = docs
+                .iter()
+                .enumerate()
+                .filter_map(|(j, d)| d.named_by(&imp).map(|how| (how, j)))
+                .min();
+            let j = match known {
+                Some((how, j)) => {
+                    if how == Naming::Trailing {
+                        warnings.push(trailing_warning(&importer, &imp, &docs[j]));
+                    }
+                    j
+                }
+                None => match resolver.find(&imp, &importer) {
+                    Some((found, how)) => {
+                        let key = canonical(&found);
+                        match docs.iter().position(|d| canonical(&d.path) == key) {
+                            Some(j) => j,
+                            None => {
+                                resolver.look_beside(&found)?;
+                                let doc = Document {
+                                    opened: open_file(&found)?,
+                                    path: found,
+                                };
+                                match doc.named_by(&imp).or(doc.opened.iri.as_ref().map(|_| how)) {
+                                    Some(Naming::Exact) => {}
+                                    Some(Naming::Trailing) => {
+                                        warnings.push(trailing_warning(&importer, &imp, &doc))
+                                    }
+                                    None => {}
+                                }
+                                if doc.opened.iri.is_some() && doc.named_by(&imp).is_none() {
+                                    warnings.push(format!(
+                                        "{}: import <{imp}> was resolved to {}, which names itself <{}>; check the catalog or the file",
+                                        importer.display(),
+                                        doc.path.display(),
+                                        doc.name()
+                                    ));
+                                }
+                                docs.push(doc);
+                                edges.push(Vec::new());
+                                docs.len() - 1
+                            }
+                        }
+                    }
+                    None => {
+                        warnings.push(format!(
+                            "{}: import <{imp}> not found (no catalog entry, no file beside the importing file or in --import-dir); going on without it, so results may be incomplete. Give the file on the command line, name it in a catalog (--catalog) or pass --import-dir",
+                            importer.display()
+                        ));
+                        *missing = true;
+                        continue;
+                    }
+                },
+            };
+            edges[i].push(j);
+        }
+        i += 1;
+    }
+    if let Some(cycle) = find_cycle(&edges) {
+        let last = cycle[cycle.len() - 2];
+        return Err(KbError::ImportCycle {
+            file: docs[last].path.display().to_string(),
+            chain: cycle
+                .iter()
+                .map(|&k| docs[k].name())
+                .collect::<Vec<_>>()
+                .join(" -> "),
+        });
+    }
+    Ok(docs)
+}
+
+/// The warning for an import that names a document only up to a trailing `/` or `#`.
+fn trailing_warning(importer: &std::path::Path, import: &str, doc: &Document) -> String {
+    format!(
+        "{}: import <{import}> taken to mean <{}> ({}), which differs only by a trailing '/' or '#'; write the import as the ontology names itself",
+        importer.display(),
+        doc.name(),
+        doc.path.display()
+    )
 }
 
 /// Splits axioms written in functional syntax into their `Prefix(...)` lines and the rest,
@@ -254,32 +318,12 @@ pub fn load_axioms_text(
     let (doc, shift) = with_standard_prefixes(&doc);
     // Positions in messages count from the start of the axioms, not of the wrapper.
     let shift = shift + header.len();
-    let parsed = std::thread::Builder::new()
-        .name(PARSER_THREAD.into())
-        .stack_size(256 << 20)
-        .spawn(move || parse_text(&doc, ResourceType::OFN, None).map(|(o, _)| o))
-        .map_err(|e| KbError::Syntax {
+    let comps = on_parser_thread(name, || {
+        read_functional(&doc).map_err(|reason| KbError::Syntax {
             file: name.into(),
-            reason: e.to_string(),
-        })?
-        .join();
-    let ont = match parsed {
-        Ok(Ok(o)) => o,
-        Ok(Err(reason)) => {
-            return Err(KbError::Syntax {
-                file: name.into(),
-                reason: locate(&reason, &body, shift),
-            });
-        }
-        Err(_) => {
-            return Err(KbError::Syntax {
-                file: name.into(),
-                reason: "malformed functional syntax".into(),
-            });
-        }
-    };
-    let mut comps: Vec<AnnotatedComponent<ArcStr>> = ont.iter().cloned().collect();
-    comps.sort();
+            reason: locate(&reason, &body, shift),
+        })
+    })?;
     let start = kb.axioms.len();
     let mut conv = Converter {
         kb,

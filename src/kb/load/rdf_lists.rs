@@ -1,6 +1,7 @@
 //! The parts of an RDF graph that horned-owl's RDF reader leaves unread: RDF lists of
-//! owl:AllDisjointClasses/AllDisjointProperties (read here from the graph by oxrdfio), and
-//! the text of every leftover part for messages.
+//! owl:AllDisjointClasses/AllDisjointProperties (read here from the graph by oxrdfio),
+//! annotation triples whose property is declared nowhere, and the text of every leftover
+//! part for messages.
 
 use crate::kb::owl::OWL;
 use horned_owl::io::ofn::writer::AsFunctional;
@@ -65,6 +66,17 @@ pub(super) fn leftover_parts(
             .iter()
             .map(|c| format!("unused class expression {}", c.as_functional())),
     );
+    // Reified annotations (owl:Axiom) whose axiom was not read would be lost silently.
+    left.extend(inc.ann_map.iter().map(|(t, anns)| {
+        format!(
+            "annotations {} on an axiom that was not read: {}",
+            anns.iter()
+                .map(|a| a.as_functional().to_string())
+                .collect::<Vec<_>>()
+                .join(" "),
+            triple(t)
+        )
+    }));
     left.extend(
         inc.object_property_expression
             .iter()
@@ -343,4 +355,58 @@ pub(super) fn add_all_disjoint(
             ann: BTreeSet::new(),
         });
     }
+}
+
+/// Takes out of the leftovers every triple `s p o` with an IRI subject whose predicate is
+/// declared nowhere as an object or data property (nor is OWL, RDF or XML Schema
+/// vocabulary) and whose object is a literal or an IRI, and returns them as annotation
+/// assertions with their reified annotations. The OWL 2 Mapping to RDF Graphs (§3.2.5,
+/// Table 17) reads such triples as annotations once the property is an annotation
+/// property; editors save annotation properties without declaring them, and a predicate
+/// that is no object or data property can only be one.
+pub(super) fn annotations_from_leftovers(
+    inc: &mut horned_owl::io::rdf::reader::IncompleteParse<ArcStr>,
+    properties: &BTreeSet<String>,
+) -> Vec<AnnotatedComponent<ArcStr>> {
+    use horned_owl::io::rdf::reader::Term;
+    use horned_owl::model::{
+        Annotation, AnnotationAssertion, AnnotationProperty, AnnotationSubject,
+        AnnotationValue as AV,
+    };
+    const RESERVED: [&str; 4] = [
+        "http://www.w3.org/2002/07/owl#",
+        "http://www.w3.org/1999/02/22-rdf-syntax-ns#",
+        "http://www.w3.org/2000/01/rdf-schema#",
+        "http://www.w3.org/2001/XMLSchema#",
+    ];
+    let mut out = Vec::new();
+    let ann_map = &mut inc.ann_map;
+    inc.simple.retain(|t| {
+        let [Term::Iri(s), Term::Iri(p), o] = t.triple() else {
+            return true;
+        };
+        let name = p.to_string();
+        if properties.contains(&name) || RESERVED.iter().any(|r| name.starts_with(r)) {
+            return true;
+        }
+        let av = match o {
+            Term::Literal(l) => AV::Literal(l.clone()),
+            Term::Iri(i) => AV::IRI(i.clone()),
+            _ => return true,
+        };
+        out.push(AnnotatedComponent {
+            component: AnnotationAssertion {
+                subject: AnnotationSubject::IRI(s.clone()),
+                ann: Annotation {
+                    ap: AnnotationProperty(p.clone()),
+                    av,
+                    ann: BTreeSet::new(),
+                },
+            }
+            .into(),
+            ann: ann_map.remove(t.triple()).unwrap_or_default(),
+        });
+        false
+    });
+    out
 }

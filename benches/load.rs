@@ -34,6 +34,7 @@ fn generated(bytes: usize) -> String {
     s.push_str("Prefix(rdfs:=<http://www.w3.org/2000/01/rdf-schema#>)\n");
     let _ = writeln!(s, "Ontology(<{NS}>");
     s.push_str("Declaration(ObjectProperty(:partOf))\nTransitiveObjectProperty(:partOf)\n");
+    s.push_str("Declaration(Class(:C0))\n");
     let mut i = 1;
     while s.len() < bytes {
         let parent = i / 4;
@@ -112,18 +113,35 @@ fn benches(c: &mut Criterion) {
         std::env::temp_dir().join(format!("wherefore-bench-load-{}", std::process::id()));
     std::fs::create_dir_all(&dir).unwrap();
     let ofn = generated(1 << 20);
-    let rdf = write_document("generated", &ofn, Syntax::RdfXml, &[]).unwrap();
+    // RDF/XML spells the same axioms out about 4.4 times longer: a smaller ontology
+    // makes the 1 MB RDF/XML file.
+    let rdf = write_document(
+        "generated",
+        &generated((1 << 20) * 10 / 44),
+        Syntax::RdfXml,
+        &[],
+    )
+    .unwrap();
     let ofn_path = dir.join("generated.ofn");
     let rdf_path = dir.join("generated.rdf");
     std::fs::write(&ofn_path, &ofn).unwrap();
     std::fs::write(&rdf_path, &rdf).unwrap();
-    // Both copies load strictly into the same knowledge base size.
+    // Both load strictly.
     let a = load(std::slice::from_ref(&ofn_path), &LoadOptions::default()).unwrap();
     let b = load(std::slice::from_ref(&rdf_path), &LoadOptions::default()).unwrap();
-    assert_eq!(a.sources.len(), b.sources.len());
-    for (name, path, horned) in [
-        ("functional", &ofn_path, horned_functional as fn(&Path)),
-        ("rdfxml", &rdf_path, horned_rdfxml as fn(&Path)),
+    for (name, path, horned, axioms) in [
+        (
+            "functional",
+            &ofn_path,
+            horned_functional as fn(&Path),
+            a.sources.len(),
+        ),
+        (
+            "rdfxml",
+            &rdf_path,
+            horned_rdfxml as fn(&Path),
+            b.sources.len(),
+        ),
     ] {
         let size = std::fs::metadata(path).unwrap().len();
         let h = time(7, || horned(path));
@@ -131,7 +149,7 @@ fn benches(c: &mut Criterion) {
         eprintln!(
             "load {name} ({:.2} MB, {} axioms): horned-owl parse {:.1} ms, wherefore load {:.1} ms, ratio {:.2} (goal ≤ 2)",
             size as f64 / 1e6,
-            a.sources.len(),
+            axioms,
             h * 1e3,
             w * 1e3,
             w / h

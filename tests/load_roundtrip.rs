@@ -255,14 +255,20 @@ fn write_all(files: &[PathBuf], syntax: Syntax, out: &Path) -> BTreeMap<PathBuf,
 /// failure, which the test reports.
 fn known_limit(syntax: Syntax, original: &KnowledgeBase, error: &str) -> Option<&'static str> {
     let has = |needle: &str| original.sources.iter().any(|s| s.text.contains(needle));
+    if syntax.is_rdf() && error.contains("besides owl:Ontology") {
+        // Its RDF reader fails on `<ontology> rdf:type voaf:Vocabulary`; wherefore reads
+        // the rest and reports that triple as unread.
+        return Some("RDF reader: ontology typed with a class besides owl:Ontology");
+    }
+    if syntax.is_rdf() && error.contains("Unknown entity in equivalent class statement") {
+        // DBpedia's functional copy names an IRI holding "<…>" that nothing declares; the
+        // RDF reader refuses owl:equivalentClass on an undeclared term.
+        return Some("RDF reader: owl:equivalentClass on an undeclared term");
+    }
     if syntax.is_rdf() && error.contains("could not read") && has("ObjectInverseOf(") {
         // Its RDF reader matches owl:onProperty of a qualified cardinality restriction
         // against an IRI only, so ObjectInverseOf there stays unread.
         return Some("RDF reader: qualified cardinality on an inverse property");
-    }
-    if syntax.is_rdf() && error.contains("Invalid annotation found") && error.contains("RDF(Type)")
-    {
-        return Some("RDF reader: ontology typed with a class besides owl:Ontology");
     }
     if syntax.is_rdf() && error.contains("undeclared entit") {
         // The original uses entities it never declares; functional syntax allows that,

@@ -6,7 +6,8 @@
 use super::PARSER_THREAD;
 use super::entities::check_entities;
 use super::rdf_lists::{
-    AllDisjoint, add_all_disjoint, annotations_from_leftovers, leftover_parts, take_all_disjoint,
+    AllDisjoint, add_all_disjoint, annotations_from_leftovers, drop_ontology_types, leftover_parts,
+    take_all_disjoint,
 };
 use super::syntax::{Detected, READABLE, Syntax, detect};
 use crate::kb::{KbError, KnowledgeBase};
@@ -46,7 +47,8 @@ pub(super) struct Opened {
 
 enum State {
     Read(Vec<AnnotatedComponent<ArcStr>>),
-    Rdf(Box<(RdfParser, Vec<AllDisjoint>)>),
+    /// The parser, the AllDisjoint groups taken out, and the graph it read (for a retry).
+    Rdf(Box<(RdfParser, Vec<AllDisjoint>, String, oxrdfio::RdfFormat)>),
 }
 
 thread_local! {
@@ -162,9 +164,8 @@ fn open_bytes(file: String, bytes: Vec<u8>) -> Result<Opened, KbError> {
     };
     let original = text[shift..].to_string();
     let outcome = match syntax.rdf_format() {
-        Some(format) => {
-            open_rdf(&text, format).map(|(p, groups)| State::Rdf(Box::new((p, groups))))
-        }
+        Some(format) => open_rdf(&text, format)
+            .map(|(p, groups)| State::Rdf(Box::new((p, groups, text.clone(), format)))),
         None => read_whole(&text, syntax).map(State::Read),
     };
     let state = outcome.map_err(|reason| KbError::Syntax {
@@ -312,7 +313,30 @@ impl Opened {
                     .cloned()
                     .collect();
                 reading(&file);
-                finish_rdf(*pending, foreign).map_err(|reason| KbError::Syntax {
+                let (parser, groups, text, format) = *pending;
+                match finish_rdf((parser, groups), foreign.clone()) {
+                    // horned-owl 4.0.0 fails on `<ontology> rdf:type X` for any X besides
+                    // owl:Ontology: read the graph again without those triples, and
+                    // report them as unread.
+                    Err(reason)
+                        if reason.contains("Invalid annotation found")
+                            && reason.contains("RDF(Type)") =>
+                    {
+                        match drop_ontology_types(&text, format) {
+                            Some((graph, dropped)) => {
+                                open_rdf(&graph, oxrdfio::RdfFormat::NTriples)
+                                    .and_then(|pending| finish_rdf(pending, foreign))
+                                    .map(|(components, mut left)| {
+                                        left.extend(dropped);
+                                        (components, left)
+                                    })
+                            }
+                            None => Err(reason),
+                        }
+                    }
+                    other => other,
+                }
+                .map_err(|reason| KbError::Syntax {
                     file: file.clone(),
                     reason,
                 })?

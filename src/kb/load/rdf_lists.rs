@@ -410,3 +410,48 @@ pub(super) fn annotations_from_leftovers(
     });
     out
 }
+
+/// The graph as N-Triples without the triples that type an ontology with a class besides
+/// owl:Ontology (`<o> rdf:type voaf:Vocabulary`), which horned-owl 4.0.0 refuses, and
+/// those triples as text for the unread parts. None when the graph does not parse or
+/// has no such triple.
+pub(super) fn drop_ontology_types(
+    text: &str,
+    format: oxrdfio::RdfFormat,
+) -> Option<(String, Vec<String>)> {
+    use oxrdf::{Term, Triple};
+    let rdf_type = "http://www.w3.org/1999/02/22-rdf-syntax-ns#type";
+    let ontology = format!("{OWL}Ontology");
+    let triples: Vec<Triple> = oxrdfio::RdfParser::from_format(format)
+        .for_reader(text.as_bytes())
+        .map(|q| q.map(Triple::from))
+        .collect::<Result<_, _>>()
+        .ok()?;
+    let ontologies: BTreeSet<String> = triples
+        .iter()
+        .filter(|t| {
+            t.predicate.as_str() == rdf_type
+                && matches!(&t.object, Term::NamedNode(n) if n.as_str() == ontology)
+        })
+        .map(|t| t.subject.to_string())
+        .collect();
+    let mut dropped = Vec::new();
+    let mut out =
+        oxrdfio::RdfSerializer::from_format(oxrdfio::RdfFormat::NTriples).for_writer(Vec::new());
+    for t in &triples {
+        let extra_type = t.predicate.as_str() == rdf_type
+            && ontologies.contains(&t.subject.to_string())
+            && !matches!(&t.object, Term::NamedNode(n) if n.as_str() == ontology);
+        if extra_type {
+            dropped.push(format!(
+                "{t} (the ontology is typed with a class besides owl:Ontology, which OWL 2 does not read)"
+            ));
+        } else {
+            out.serialize_triple(t).ok()?;
+        }
+    }
+    if dropped.is_empty() {
+        return None;
+    }
+    Some((String::from_utf8(out.finish().ok()?).ok()?, dropped))
+}

@@ -20,7 +20,7 @@ use std::path::{Path, PathBuf};
 use std::time::Duration;
 use wherefore::explain::{Assertion, ExplainOptions, Problem, explain};
 use wherefore::facts::Facts;
-use wherefore::kb::owl::{LoadOptions, load};
+use wherefore::kb::load::{LoadOptions, load};
 use wherefore::kb::{Axiom, KnowledgeBase};
 use wherefore::reasoner::Reasoner;
 use wherefore::reasoner::classify::classify;

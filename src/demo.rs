@@ -7,7 +7,7 @@
 
 use crate::explain::ExplainOptions;
 use crate::explain::case::case_problem;
-use crate::kb::{KnowledgeBase, owl};
+use crate::kb::{KnowledgeBase, load};
 use crate::render::{self, ReportInput};
 use crate::spatial::affine::Affine;
 use crate::spatial::measure::{MeasureOptions, measure};
@@ -172,7 +172,8 @@ pub fn demo_kb(dir: &Path) -> Result<KnowledgeBase, String> {
     let odir = dir.join("ontologies");
     write(&odir.join("spatial.ofn"), SPATIAL_OFN.as_bytes())?;
     write(&odir.join("abdomen.ofn"), ABDOMEN_OFN.as_bytes())?;
-    owl::load(&[odir.join("abdomen.ofn")], &owl::LoadOptions::default()).map_err(|e| e.to_string())
+    load::load(&[odir.join("abdomen.ofn")], &load::LoadOptions::default())
+        .map_err(|e| e.to_string())
 }
 
 /// Runs the whole demo into `dir`.

@@ -11,7 +11,7 @@ fn main() {
     let default_hook = std::panic::take_hook();
     std::panic::set_hook(Box::new(move |info| {
         // A parser panic is turned into an error message by the loader; stay quiet for it.
-        if std::thread::current().name() == Some(wherefore::kb::owl::PARSER_THREAD) {
+        if std::thread::current().name() == Some(wherefore::kb::load::PARSER_THREAD) {
             return;
         }
         default_hook(info);

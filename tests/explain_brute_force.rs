@@ -12,7 +12,7 @@ use std::collections::BTreeSet;
 use wherefore::explain::abduce::Strategy;
 use wherefore::explain::case::{Mark, observations_problem};
 use wherefore::explain::{Assertion, ExplainOptions, Problem, explain};
-use wherefore::kb::owl::{LoadOptions, load, load_axioms_text};
+use wherefore::kb::load::{LoadOptions, load, load_axioms_text};
 use wherefore::reasoner::{Answer, Extra, Reasoner};
 
 const NS: &str = "urn:bf#";

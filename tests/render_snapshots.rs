@@ -7,7 +7,7 @@
 //! phantom and cut down to four regions.
 
 use std::path::PathBuf;
-use wherefore::kb::owl::{LoadOptions, load};
+use wherefore::kb::load::{LoadOptions, load};
 use wherefore::render::{self, Report};
 
 fn report() -> Report {

@@ -5,7 +5,7 @@
 
 use std::path::{Path, PathBuf};
 use std::process::{Command, Stdio};
-use wherefore::kb::owl;
+use wherefore::kb::load;
 use wherefore::shell::{Session, run_script};
 
 const ORGANS: &str = "tests/fixtures/shell/organs.ofn";
@@ -201,7 +201,7 @@ status",
     );
     assert!(!s.unsaved(), "{t}");
     // Load the saved file afresh and compare the axiom sets.
-    let fresh = owl::load(std::slice::from_ref(&out), &owl::LoadOptions::default()).unwrap();
+    let fresh = load::load(std::slice::from_ref(&out), &load::LoadOptions::default()).unwrap();
     assert_eq!(Session::axiom_set(&fresh), Session::axiom_set(s.kb()));
     assert!(
         !Session::axiom_set(&fresh)
@@ -217,7 +217,7 @@ status",
         std::fs::read_to_string(&bak).unwrap(),
         std::fs::read_to_string(ORGANS).unwrap()
     );
-    let again = owl::load(std::slice::from_ref(&file), &owl::LoadOptions::default()).unwrap();
+    let again = load::load(std::slice::from_ref(&file), &load::LoadOptions::default()).unwrap();
     assert!(
         Session::axiom_set(&again)
             .contains("SubClassOf(<http://ex.org/organs#Gut> <http://ex.org/organs#Organ>)")

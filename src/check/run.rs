@@ -10,7 +10,7 @@ use crate::explain::case::{Mark, case_problem, observations_problem, read_abduci
 use crate::explain::{Assertion, ExplainOptions, Problem, explain};
 use crate::facts::Facts;
 use crate::facts::abox::CaseAbox;
-use crate::kb::{Axiom, KnowledgeBase, owl};
+use crate::kb::{Axiom, KnowledgeBase, load};
 use crate::reasoner::{Answer, Limits, Reasoner};
 use rayon::prelude::*;
 use std::collections::BTreeMap;
@@ -23,6 +23,8 @@ use std::time::{Duration, Instant};
 pub struct RunOptions {
     /// Folders searched for imported ontologies.
     pub import_dirs: Vec<PathBuf>,
+    /// An XML catalog asked first for every import.
+    pub catalog: Option<PathBuf>,
     /// KB files replaced by file name (the baseline's older versions).
     pub replace: BTreeMap<String, PathBuf>,
     /// Run the abduction search even when no expectation needs it (for comparisons).
@@ -40,6 +42,7 @@ impl Default for RunOptions {
     fn default() -> Self {
         RunOptions {
             import_dirs: Vec::new(),
+            catalog: None,
             replace: BTreeMap::new(),
             explain_always: false,
             timeout: Duration::from_secs(120),
@@ -179,16 +182,17 @@ pub fn run_suite(cases: &[CaseSpec], opts: &RunOptions) -> Vec<CaseResult> {
     let mut sets: Vec<Vec<PathBuf>> = cases.iter().map(key).collect();
     sets.sort();
     sets.dedup();
-    let lo = owl::LoadOptions {
+    let lo = load::LoadOptions {
         import_dirs: opts.import_dirs.clone(),
         lenient: false,
+        catalog: opts.catalog.clone(),
     };
     let loaded: BTreeMap<Vec<PathBuf>, Result<Arc<KnowledgeBase>, String>> = sets
         .into_par_iter()
         .map(|s| {
             let kb = match &opts.kb {
                 Some(kb) => Ok(kb.clone()),
-                None => owl::load(&s, &lo).map(Arc::new).map_err(|e| e.to_string()),
+                None => load::load(&s, &lo).map(Arc::new).map_err(|e| e.to_string()),
             };
             (s, kb)
         })
@@ -309,7 +313,7 @@ fn case_kb(c: &CaseSpec, kb: &KnowledgeBase, want_problem: bool) -> Result<CaseK
         let doc = format!("{}{}", prefix_header(&c.prefixes), bg.text);
         intern_individuals(&mut kb, &origin, &doc)?;
         let mark = Mark::of(&kb);
-        owl::load_axioms_text(&mut kb, &origin, &doc).map_err(|e| CheckError(e.to_string()))?;
+        load::load_axioms_text(&mut kb, &origin, &doc).map_err(|e| CheckError(e.to_string()))?;
         unknown_vocab(&kb, mark, &origin, "")?;
     }
     if let Input::Assertions { text, line } = &c.input {
@@ -317,7 +321,7 @@ fn case_kb(c: &CaseSpec, kb: &KnowledgeBase, want_problem: bool) -> Result<CaseK
         let doc = format!("{}{text}", prefix_header(&c.prefixes));
         intern_individuals(&mut kb, &origin, &doc)?;
         let mark = Mark::of(&kb);
-        owl::load_axioms_text(&mut kb, &origin, &doc).map_err(|e| CheckError(e.to_string()))?;
+        load::load_axioms_text(&mut kb, &origin, &doc).map_err(|e| CheckError(e.to_string()))?;
         unknown_vocab(&kb, mark, &origin, "")?;
         if want_problem {
             problem = Some(
@@ -346,7 +350,7 @@ fn case_kb(c: &CaseSpec, kb: &KnowledgeBase, want_problem: bool) -> Result<CaseK
 fn intern_individuals(kb: &mut KnowledgeBase, origin: &str, doc: &str) -> Result<(), CheckError> {
     let mut scratch = kb.clone();
     let m0 = Mark::of(&scratch);
-    owl::load_axioms_text(&mut scratch, origin, doc).map_err(|e| CheckError(e.to_string()))?;
+    load::load_axioms_text(&mut scratch, origin, doc).map_err(|e| CheckError(e.to_string()))?;
     for i in m0.individuals..scratch.vocab.individuals.len() {
         let iri = scratch
             .vocab
@@ -408,7 +412,7 @@ fn parse_item(
     let origin = at(c, item.line);
     let mark = Mark::of(kb);
     let doc = format!("{}{}", prefix_header(&c.prefixes), item.text);
-    let r = owl::load_axioms_text(kb, &origin, &doc)
+    let r = load::load_axioms_text(kb, &origin, &doc)
         .map_err(|e| CheckError(format!("{e} (in expect.{key})")))?;
     unknown_vocab(kb, mark, &origin, &format!("expect.{key}: {} ", item.text))?;
     if r.is_empty() {

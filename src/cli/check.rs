@@ -42,6 +42,9 @@ pub struct CheckArgs {
     /// Folder searched for imported ontologies.
     #[arg(long = "import-dir", value_name = "DIR")]
     pub import_dirs: Vec<PathBuf>,
+    /// XML catalog (OASIS) that maps imported ontology IRIs to files.
+    #[arg(long, value_name = "FILE")]
+    pub catalog: Option<PathBuf>,
 }
 
 fn bad(msg: impl std::fmt::Display) -> i32 {
@@ -75,6 +78,7 @@ pub fn run(args: CheckArgs) -> i32 {
     };
     let opts = check::RunOptions {
         import_dirs: args.import_dirs.clone(),
+        catalog: args.catalog.clone(),
         explain_always: !args.baseline.is_empty(),
         timeout: Duration::from_secs_f64(args.timeout.min(1e6)),
         max_graph_nodes: args.max_graph_nodes,

@@ -1,7 +1,7 @@
 //! Helpers shared by the commands: loading a knowledge base with messages and exit codes,
 //! limits from options, atomic writes.
 
-use crate::kb::{KnowledgeBase, owl};
+use crate::kb::{KnowledgeBase, load};
 use crate::reasoner::{Limits, Reasoner};
 use crate::render::text::refusal_message;
 use clap::Args;
@@ -17,6 +17,10 @@ pub struct KbOptions {
     /// Drop axioms outside the supported logic with a warning instead of failing.
     #[arg(long)]
     pub lenient: bool,
+    /// XML catalog (OASIS) that maps imported ontology IRIs to files; a
+    /// `catalog-v001.xml` beside an ontology is used as well.
+    #[arg(long, value_name = "FILE")]
+    pub catalog: Option<PathBuf>,
 }
 
 /// Resource limits shared by the commands that reason.
@@ -50,11 +54,12 @@ impl LimitOptions {
 
 /// Loads ontologies, printing warnings; on error prints the message and returns exit code 2.
 pub fn load_kb(paths: &[PathBuf], opts: &KbOptions) -> Result<KnowledgeBase, i32> {
-    let lo = owl::LoadOptions {
+    let lo = load::LoadOptions {
         import_dirs: opts.import_dirs.clone(),
         lenient: opts.lenient,
+        catalog: opts.catalog.clone(),
     };
-    match owl::load(paths, &lo) {
+    match load::load(paths, &lo) {
         Ok(kb) => {
             for w in &kb.warnings {
                 eprintln!("warning: {w}");

@@ -3,7 +3,7 @@
 use super::common::{KbOptions, LimitOptions, load_kb};
 use crate::explain::case::{self, ObservationSource};
 use crate::explain::{ExplainOptions, ExplainResult, Problem, explain};
-use crate::kb::owl;
+use crate::kb::load;
 use crate::render::text::{refusal_message, result_text, source_texts};
 use clap::Args;
 use std::path::PathBuf;
@@ -127,9 +127,10 @@ pub fn build_problem(args: &ExplainArgs) -> Result<Problem, i32> {
             "give the observations: --observations OBS.ofn or --facts FACTS.json".into(),
         ));
     };
-    let lo = owl::LoadOptions {
+    let lo = load::LoadOptions {
         import_dirs: args.kb_opts.import_dirs.clone(),
         lenient: false,
+        catalog: args.kb_opts.catalog.clone(),
     };
     let (problem, warnings) =
         case::build_problem(&kb, source, args.abducibles.as_deref(), &lo).map_err(bad)?;

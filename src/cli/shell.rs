@@ -3,7 +3,7 @@
 //! `crate::shell`.
 
 use super::common::KbOptions;
-use crate::kb::owl::LoadOptions;
+use crate::kb::load::LoadOptions;
 use crate::shell::{COMMANDS, Session, run_script, syntax};
 use clap::Args;
 use rustyline::completion::{Completer, FilenameCompleter, Pair};
@@ -61,6 +61,7 @@ pub fn run(args: ShellArgs) -> i32 {
     let mut session = Session::new(LoadOptions {
         import_dirs: args.kb_opts.import_dirs.clone(),
         lenient: args.kb_opts.lenient,
+        catalog: args.kb_opts.catalog.clone(),
     });
     session.timeout = args
         .timeout

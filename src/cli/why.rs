@@ -5,7 +5,7 @@
 use super::common::{KbOptions, LimitOptions, load_kb};
 use crate::explain::justify::minimal_hitting_sets;
 use crate::explain::why::{Items, Target, targets_of, why_report};
-use crate::kb::{ClassId, owl};
+use crate::kb::{ClassId, load};
 use crate::reasoner::Reasoner;
 use crate::render::text::{refusal_message, why_text};
 use clap::Args;
@@ -53,7 +53,7 @@ pub fn run(args: WhyArgs) -> i32 {
     let n_ax = kb.axioms.len();
     let mut targets: Vec<(String, Vec<Target>)> = Vec::new();
     if let Some(text) = &args.entailment {
-        let range = match owl::load_axioms_text(&mut kb, "--entailment", text) {
+        let range = match load::load_axioms_text(&mut kb, "--entailment", text) {
             Ok(r) => r,
             Err(e) => {
                 eprintln!("error: {e}");

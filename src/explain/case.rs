@@ -265,7 +265,7 @@ pub fn build_problem(
     kb: &KnowledgeBase,
     source: ObservationSource,
     abducibles: Option<&Path>,
-    load: &crate::kb::owl::LoadOptions,
+    load: &crate::kb::load::LoadOptions,
 ) -> Result<(Problem, Vec<String>), String> {
     match source {
         ObservationSource::Facts(facts, file) => {
@@ -285,11 +285,12 @@ pub fn build_problem(
         ObservationSource::File(path) => {
             let mut kb = kb.clone();
             let mark = Mark::of(&kb);
-            let lo = crate::kb::owl::LoadOptions {
+            let lo = crate::kb::load::LoadOptions {
                 import_dirs: load.import_dirs.clone(),
                 lenient: false,
+                catalog: load.catalog.clone(),
             };
-            crate::kb::owl::load_into(&mut kb, &[path.to_path_buf()], &lo)
+            crate::kb::load::load_into(&mut kb, &[path.to_path_buf()], &lo)
                 .map_err(|e| e.to_string())?;
             let p = observations_problem(kb, mark, &path.display().to_string(), abducibles)?;
             Ok((p, Vec::new()))
@@ -297,7 +298,7 @@ pub fn build_problem(
         ObservationSource::Text(name, text) => {
             let mut kb = kb.clone();
             let mark = Mark::of(&kb);
-            crate::kb::owl::load_axioms_text(&mut kb, name, text).map_err(|e| e.to_string())?;
+            crate::kb::load::load_axioms_text(&mut kb, name, text).map_err(|e| e.to_string())?;
             let p = observations_problem(kb, mark, name, abducibles)?;
             Ok((p, Vec::new()))
         }

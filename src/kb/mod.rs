@@ -4,6 +4,7 @@
 pub mod concept;
 pub mod datarange;
 pub mod error;
+pub mod load;
 pub mod owl;
 
 pub use concept::{Concept, ConceptId, ConceptStore};

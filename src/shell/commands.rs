@@ -7,7 +7,7 @@ use crate::explain::case::{ObservationSource, build_problem};
 use crate::explain::why::{Items, Target, all_entailed, targets_of};
 use crate::explain::why::{WhyReport, why_report};
 use crate::explain::{ExplainOptions, explain};
-use crate::kb::owl::{self, DocumentEdit};
+use crate::kb::load::{self, document::DocumentEdit};
 use crate::kb::{Axiom, ClassId, Concept, ConceptId, KbError, KnowledgeBase, RoleId};
 use crate::reasoner::{Answer, Classification, Reasoner, classify, realise};
 use crate::render::text::{classification_text, why_text};
@@ -501,7 +501,7 @@ fn load_text(
     let before = sizes(kb);
     let doc = format!("{}{text}", s.prefix_block());
     let same = text == user_text;
-    let range = match owl::load_axioms_text(kb, "input", &doc) {
+    let range = match load::load_axioms_text(kb, "input", &doc) {
         Ok(r) => r,
         Err(KbError::Syntax { reason, .. }) => {
             // Lines before the input: the prefix declarations and the `Ontology(` line.
@@ -1727,7 +1727,7 @@ fn save(s: &mut Session, l: &Line) -> Result<String, ShellError> {
             Edit::Facts { functional, .. } => DocumentEdit::Add(functional),
         })
         .collect();
-    let text = owl::write_merged(&docs, &edits, &s.prefixes)
+    let text = load::document::write_merged(&docs, &edits, &s.prefixes)
         .map_err(|e| ShellError::new(format!("not saved: {e}; your edits are kept")))?;
     let mut backup = None;
     if target.exists() {
@@ -1750,7 +1750,7 @@ fn save(s: &mut Session, l: &Line) -> Result<String, ShellError> {
     crate::files::write_atomic(&target, text.as_bytes(), &[])
         .map_err(|e| ShellError::new(format!("not saved: {e}; your edits are kept")))?;
     // Round trip: the saved file must load back with the same axioms and annotations.
-    let check = owl::load(std::slice::from_ref(&target), &s.load)
+    let check = load::load(std::slice::from_ref(&target), &s.load)
         .map_err(|e| ShellError::new(format!("saved, but the file does not load back: {e}")))?;
     let got = Session::axiom_set(&check);
     let want = Session::axiom_set(&s.kb);
@@ -1767,7 +1767,7 @@ fn save(s: &mut Session, l: &Line) -> Result<String, ShellError> {
             .map(|t| format!("{t}\n"))
             .collect();
         let canon: std::collections::BTreeSet<String> =
-            owl::load_axioms_text(&mut probe, "check", &texts)
+            load::load_axioms_text(&mut probe, "check", &texts)
                 .map(|r| {
                     r.map(|i| probe.sources[probe.axioms[i].source].text.clone())
                         .collect()

@@ -14,7 +14,7 @@ pub mod syntax;
 pub use commands::{COMMANDS, help_text};
 
 use crate::facts::Facts;
-use crate::kb::owl::{self, LoadOptions};
+use crate::kb::load::{self, LoadOptions};
 use crate::kb::{ClassId, IndividualId, KnowledgeBase};
 use crate::reasoner::{Classification, Limits, Reasoner};
 use names::EntityIndex;
@@ -294,7 +294,7 @@ impl Session {
 
     /// Replaces the list of files, reloading them; on error nothing changes.
     fn set_files(&mut self, files: Vec<PathBuf>) -> Result<Vec<String>, ShellError> {
-        let base = owl::load(&files, &self.load).map_err(|e| ShellError::new(e.to_string()))?;
+        let base = load::load(&files, &self.load).map_err(|e| ShellError::new(e.to_string()))?;
         let mut documents = Vec::new();
         let mut prefixes = standard_prefixes();
         for f in &base.files {
@@ -473,7 +473,7 @@ fn apply(kb: &mut KnowledgeBase, e: &Edit) -> Result<Option<String>, String> {
                 .map(|a| kb.sources[a.source].text.clone())
                 .collect();
             let range =
-                owl::load_axioms_text(kb, "session", functional).map_err(|e| e.to_string())?;
+                load::load_axioms_text(kb, "session", functional).map_err(|e| e.to_string())?;
             let all_known = range
                 .clone()
                 .all(|i| before.contains(&kb.sources[kb.axioms[i].source].text));

@@ -708,11 +708,11 @@ pub fn balanced(text: &str) -> bool {
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::kb::owl;
+    use crate::kb::load;
 
     fn index() -> EntityIndex {
         let mut kb = crate::kb::KnowledgeBase::new();
-        owl::load_axioms_text(
+        load::load_axioms_text(
             &mut kb,
             "t",
             "Prefix(:=<http://ex.org/t#>)\nSubClassOf(:A :B)\nObjectPropertyAssertion(:r :a :b)\nAnnotationAssertion(rdfs:label :A \"apple tree\")\nDataPropertyAssertion(:d :a \"1\"^^xsd:integer)",

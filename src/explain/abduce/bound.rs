@@ -22,6 +22,9 @@ pub enum SearchLimit {
     TreeNodes,
     /// The search's memory budget (`--max-memory`).
     Memory,
+    /// A reasoner test met a model it cannot claim: a nominal's at-most restriction counts
+    /// nodes in copied (blocked) parts of the completion graph.
+    NominalCounting,
 }
 
 impl From<Limit> for SearchLimit {
@@ -30,6 +33,7 @@ impl From<Limit> for SearchLimit {
             Limit::Time => SearchLimit::Time,
             Limit::Nodes => SearchLimit::GraphNodes,
             Limit::Cancelled => SearchLimit::Cancelled,
+            Limit::NominalCounting => SearchLimit::NominalCounting,
         }
     }
 }
@@ -43,6 +47,7 @@ impl SearchLimit {
             SearchLimit::Cancelled => None,
             SearchLimit::TreeNodes => Some("--max-nodes"),
             SearchLimit::Memory => Some("--max-memory"),
+            SearchLimit::NominalCounting => None,
         }
     }
 }
@@ -55,6 +60,7 @@ impl std::fmt::Display for SearchLimit {
             SearchLimit::Cancelled => "cancelled",
             SearchLimit::TreeNodes => "node limit of the hitting-set tree reached",
             SearchLimit::Memory => "memory budget of the search reached",
+            SearchLimit::NominalCounting => return Limit::NominalCounting.fmt(f),
         })
     }
 }

@@ -172,7 +172,11 @@ impl Signature {
                 Concept::Some(r, _)
                 | Concept::All(r, _)
                 | Concept::AtLeast(_, r, _)
-                | Concept::AtMost(_, r, _) => new |= self.add_role(*r),
+                | Concept::AtMost(_, r, _)
+                | Concept::HasSelf(r)
+                | Concept::NotSelf(r)
+                | Concept::AllPath(r, _, _)
+                | Concept::SomePath(r, _, _) => new |= self.add_role(*r),
                 _ => {}
             }
             stack.extend_from_slice(cs.children(x));
@@ -254,6 +258,20 @@ impl Signature {
             Axiom::ClassAssertion(c, _) => top(*c),
             Axiom::RoleAssertion(r, _, _) => l == Locality::Top && out_role(*r),
             Axiom::NegativeRoleAssertion(r, _, _) => l == Locality::Bottom && out_role(*r),
+            // A chain with an empty link is empty; a universal super-property holds anyway.
+            Axiom::SubRoleChain(rs, s) => match l {
+                Locality::Top => out_role(*s),
+                Locality::Bottom => rs.iter().any(|&r| out_role(r)),
+            },
+            Axiom::Reflexive(r) => l == Locality::Top && out_role(*r),
+            Axiom::Irreflexive(r) | Axiom::Asymmetric(r) => {
+                l == Locality::Bottom && out_role(*r)
+            }
+            Axiom::DisjointRoles(rs) => {
+                l == Locality::Bottom && rs.iter().filter(|&&r| !out_role(r)).count() <= 1
+            }
+            // A key on an empty class constrains nothing.
+            Axiom::HasKey(c, _, _) => bot(*c),
             Axiom::SubDataProp(..)
             | Axiom::FunctionalData(_)
             | Axiom::DataRangeAxiom(..)
@@ -283,8 +301,29 @@ impl Signature {
                 self.add_role(*r);
                 self.add_role(*s);
             }
-            Axiom::Transitive(r) | Axiom::Functional(r) => {
+            Axiom::Transitive(r)
+            | Axiom::Functional(r)
+            | Axiom::Reflexive(r)
+            | Axiom::Irreflexive(r)
+            | Axiom::Asymmetric(r) => {
                 self.add_role(*r);
+            }
+            Axiom::SubRoleChain(rs, s) => {
+                for &r in rs {
+                    self.add_role(r);
+                }
+                self.add_role(*s);
+            }
+            Axiom::DisjointRoles(rs) => {
+                for &r in rs {
+                    self.add_role(r);
+                }
+            }
+            Axiom::HasKey(c, rs, _) => {
+                self.add_concept(cs, *c);
+                for &r in rs {
+                    self.add_role(r);
+                }
             }
             Axiom::Domain(r, c) => {
                 self.add_role(*r);

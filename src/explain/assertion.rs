@@ -110,17 +110,27 @@ pub fn concept_ofn(
         }
         Concept::DataSome(p, d) => {
             format!(
-                "DataSomeValuesFrom(<{}> {:?})",
+                "DataSomeValuesFrom(<{}> {})",
                 kb.vocab.data_props[p.index()],
-                ranges.get(*d)
+                ranges.get(*d).describe()
             )
         }
         Concept::DataAll(p, d) => {
             format!(
-                "DataAllValuesFrom(<{}> {:?})",
+                "DataAllValuesFrom(<{}> {})",
                 kb.vocab.data_props[p.index()],
-                ranges.get(*d)
+                ranges.get(*d).describe()
             )
         }
+        Concept::DataAtLeast(n, p, d) => format!(
+            "DataMinCardinality({n} <{}> {})",
+            kb.vocab.data_props[p.index()],
+            ranges.get(*d).describe()
+        ),
+        Concept::DataAtMost(n, p, d) => format!(
+            "DataMaxCardinality({n} <{}> {})",
+            kb.vocab.data_props[p.index()],
+            ranges.get(*d).describe()
+        ),
     }
 }

@@ -1429,10 +1429,21 @@ impl Converter<'_> {
                 let r = self.literal_range(l)?;
                 self.data_some(p, r)
             }
-            CE::DataMinCardinality { .. }
-            | CE::DataMaxCardinality { .. }
-            | CE::DataExactCardinality { .. } => {
-                return Err("data cardinality restrictions are not supported".into());
+            CE::DataMinCardinality { n, dp, dr }
+            | CE::DataMaxCardinality { n, dp, dr }
+            | CE::DataExactCardinality { n, dp, dr } => {
+                let p = self.kb.vocab.data_prop(&dp.0);
+                let r = self.data_range(dr)?;
+                let not_r = r.complement();
+                let (a, b) = (self.kb.ranges.intern(r), self.kb.ranges.intern(not_r));
+                let cs = &mut self.kb.concepts;
+                let min = cs.data_at_least(*n, p, a, b);
+                let max = cs.data_at_most(*n, p, a, b);
+                match e {
+                    CE::DataMinCardinality { .. } => min,
+                    CE::DataMaxCardinality { .. } => max,
+                    _ => cs.and([min, max]),
+                }
             }
         })
     }

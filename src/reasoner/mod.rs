@@ -6,6 +6,7 @@
 
 pub mod cache;
 pub mod classify;
+pub mod datavalues;
 pub mod depset;
 pub mod prepare;
 pub mod tableau;

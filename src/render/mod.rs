@@ -666,6 +666,16 @@ pub fn dl_concept(kb: &KnowledgeBase, c: crate::kb::ConceptId) -> String {
             short(&kb.vocab.data_props[p.index()]),
             words::range_text(kb.ranges.get(*d))
         ),
+        Concept::DataAtLeast(n, p, d) => format!(
+            "≥{n} {}.{}",
+            short(&kb.vocab.data_props[p.index()]),
+            words::range_text(kb.ranges.get(*d))
+        ),
+        Concept::DataAtMost(n, p, d) => format!(
+            "≤{n} {}.{}",
+            short(&kb.vocab.data_props[p.index()]),
+            words::range_text(kb.ranges.get(*d))
+        ),
     }
 }
 

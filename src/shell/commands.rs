@@ -789,6 +789,16 @@ fn manchester(s: &Session, kb: &KnowledgeBase, c: ConceptId) -> String {
             s.names.short(&kb.vocab.data_props[p.index()]),
             crate::render::words::range_text(kb.ranges.get(*d))
         ),
+        Concept::DataAtLeast(n, p, d) => format!(
+            "{} min {n} {}",
+            s.names.short(&kb.vocab.data_props[p.index()]),
+            crate::render::words::range_text(kb.ranges.get(*d))
+        ),
+        Concept::DataAtMost(n, p, d) => format!(
+            "{} max {n} {}",
+            s.names.short(&kb.vocab.data_props[p.index()]),
+            crate::render::words::range_text(kb.ranges.get(*d))
+        ),
     }
 }
 

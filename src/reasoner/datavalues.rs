@@ -325,13 +325,21 @@ mod tests {
         assert_eq!(check(&needs, &[cap(1, &all)], &same, 10_000), Verdict::Sat);
         // With ∃p.integer[2..5] instead, ≤1 p cannot hold.
         let needs2 = [need(0, &one, None), need(0, &int_range("2", "5"), None)];
-        assert_eq!(check(&needs2, &[cap(1, &all)], &same, 10_000), Verdict::Unsat);
+        assert_eq!(
+            check(&needs2, &[cap(1, &all)], &same, 10_000),
+            Verdict::Unsat
+        );
         // ≤0 p.integer[3..9] with ∃p.integer[2..5]: the value can be 2.
         let c = cap(0, &int_range("3", "9"));
-        assert_eq!(check(&needs2[1..], &[c.clone()], &same, 10_000), Verdict::Sat);
+        assert_eq!(
+            check(&needs2[1..], &[c.clone()], &same, 10_000),
+            Verdict::Sat
+        );
         // ≥2 p.integer[2..5] with ≤1 p.integer[3..9]: 2 and one of 3..5: fine; with
         // ≥2 p.integer[3..5]: both in [3..9]: no.
-        let two: Vec<Need> = (0..2).map(|_| need(0, &int_range("3", "5"), Some(0))).collect();
+        let two: Vec<Need> = (0..2)
+            .map(|_| need(0, &int_range("3", "5"), Some(0)))
+            .collect();
         let c1 = cap(1, &int_range("3", "9"));
         assert_eq!(check(&two, &[c1], &same, 10_000), Verdict::Unsat);
     }

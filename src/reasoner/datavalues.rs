@@ -332,7 +332,7 @@ mod tests {
         // ≤0 p.integer[3..9] with ∃p.integer[2..5]: the value can be 2.
         let c = cap(0, &int_range("3", "9"));
         assert_eq!(
-            check(&needs2[1..], &[c.clone()], &same, 10_000),
+            check(&needs2[1..], std::slice::from_ref(&c), &same, 10_000),
             Verdict::Sat
         );
         // ≥2 p.integer[2..5] with ≤1 p.integer[3..9]: 2 and one of 3..5: fine; with

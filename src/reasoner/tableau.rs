@@ -1,5 +1,5 @@
 //! The completion-graph tableau for SHIQ (Horrocks, Sattler & Tobies 1999/2000) with
-//! numeric data ranges, ABox root nodes and ObjectHasValue fillers.
+//! data ranges and data number restrictions, ABox root nodes and ObjectHasValue fillers.
 //!
 //! One solver state, declared parts: the completion [`Graph`] (copied at branching points,
 //! which is the trail), the branching stack, the dependency table and statistics.
@@ -788,7 +788,7 @@ impl<'a> Tableau<'a> {
         let mut caps = Vec::new();
         let mut dep = Dep::EMPTY;
         let mut group = 0u32;
-        let label: Vec<ConceptId> = self.g.nodes[x].label.iter().copied().collect();
+        let label: Vec<ConceptId> = self.g.nodes[x].label.to_vec();
         for c in label {
             let (need_n, dp, r, grouped) = match *self.concepts.get(c) {
                 Concept::DataSome(dp, r) => (1, dp, r, false),

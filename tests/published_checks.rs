@@ -184,8 +184,8 @@ fn fixtures_parse_with_horned_owl() {
     ] {
         files.push(root.join(format!("real/{name}.ofn")));
     }
-    // 19 published files (tests/fixtures/published/README.md) plus five real ontologies.
-    assert_eq!(files.len(), 24);
+    // 24 published files (tests/fixtures/published/README.md) plus five real ontologies.
+    assert_eq!(files.len(), 29);
     for f in files {
         let n = parse_with_horned_owl(&f).unwrap_or_else(|e| panic!("{e}"));
         assert!(n >= 2, "{}: only {n} components", f.display());

@@ -110,16 +110,16 @@ pub fn concept_ofn(
         }
         Concept::DataSome(p, d) => {
             format!(
-                "DataSomeValuesFrom(<{}> {:?})",
+                "DataSomeValuesFrom(<{}> {})",
                 kb.vocab.data_props[p.index()],
-                ranges.get(*d)
+                ranges.get(*d).describe()
             )
         }
         Concept::DataAll(p, d) => {
             format!(
-                "DataAllValuesFrom(<{}> {:?})",
+                "DataAllValuesFrom(<{}> {})",
                 kb.vocab.data_props[p.index()],
-                ranges.get(*d)
+                ranges.get(*d).describe()
             )
         }
         Concept::HasSelf(r) => format!("ObjectHasSelf({})", role_ofn(kb, *r)),
@@ -129,5 +129,15 @@ pub fn concept_ofn(
         Concept::SomePath(r, _, x) => {
             format!("ObjectSomeValuesFrom({} {})", role_ofn(kb, *r), f(*x))
         }
+        Concept::DataAtLeast(n, p, d) => format!(
+            "DataMinCardinality({n} <{}> {})",
+            kb.vocab.data_props[p.index()],
+            ranges.get(*d).describe()
+        ),
+        Concept::DataAtMost(n, p, d) => format!(
+            "DataMaxCardinality({n} <{}> {})",
+            kb.vocab.data_props[p.index()],
+            ranges.get(*d).describe()
+        ),
     }
 }

@@ -3,7 +3,7 @@
 //! facts relation it stands for, `wf:factsQuantity` on a data property names a quantity.
 
 use super::Facts;
-use crate::kb::datarange::{DataRange, Piece, Space};
+use crate::kb::datatype;
 use crate::kb::{Axiom, Concept, IndividualId, KnowledgeBase, RoleId};
 use std::collections::BTreeMap;
 
@@ -181,7 +181,13 @@ fn data_assertion(
     // a micrometre so that the text stays readable.
     let v = (v * 1000.0).round() / 1000.0;
     let p = kb.vocab.data_prop(dp);
-    let r = DataRange::piece(Space::Decimal, Piece::point(v));
+    // Display of an f64 never uses an exponent, so the text is an xsd:decimal lexical form.
+    let r = datatype::literal(
+        &format!("{v}"),
+        Some("http://www.w3.org/2001/XMLSchema#decimal"),
+        None,
+    )
+    .expect("xsd:decimal is in the datatype map");
     let nr = r.complement();
     let ri = kb.ranges.intern(r);
     let nri = kb.ranges.intern(nr);

@@ -64,6 +64,10 @@ pub enum Concept {
     /// The negation partner of [`Concept::AllPath`], which every concept needs; the tableau
     /// never puts it in a label.
     SomePath(RoleId, u32, ConceptId),
+    /// ≥n p.D over a data property, n ≥ 2 (n = 1 is [`Concept::DataSome`]).
+    DataAtLeast(u32, DataPropId, DataRangeId),
+    /// ≤n p.D over a data property, n ≥ 1 (n = 0 is [`Concept::DataAll`] of the complement).
+    DataAtMost(u32, DataPropId, DataRangeId),
 }
 
 /// The store of all concepts of a knowledge base, with negations precomputed.
@@ -234,6 +238,39 @@ impl ConceptStore {
     pub fn data_all(&mut self, p: DataPropId, d: DataRangeId, not_d: DataRangeId) -> ConceptId {
         let s = self.data_some(p, not_d, d);
         self.not(s)
+    }
+
+    /// ≥n p.D over a data property (`not_d` is the complement of `d`).
+    pub fn data_at_least(
+        &mut self,
+        n: u32,
+        p: DataPropId,
+        d: DataRangeId,
+        not_d: DataRangeId,
+    ) -> ConceptId {
+        match n {
+            0 => ConceptId::TOP,
+            1 => self.data_some(p, d, not_d),
+            _ => self.pair(
+                Concept::DataAtLeast(n, p, d),
+                Concept::DataAtMost(n - 1, p, d),
+            ),
+        }
+    }
+
+    /// ≤n p.D over a data property (`not_d` is the complement of `d`).
+    pub fn data_at_most(
+        &mut self,
+        n: u32,
+        p: DataPropId,
+        d: DataRangeId,
+        not_d: DataRangeId,
+    ) -> ConceptId {
+        if n == u32::MAX {
+            return ConceptId::TOP;
+        }
+        let l = self.data_at_least(n + 1, p, d, not_d);
+        self.not(l)
     }
 
     /// Conjunction, flattened, sorted and simplified.

@@ -1,189 +1,110 @@
-//! Numeric data ranges: unions of intervals over the value spaces of OWL 2's numeric types.
+//! Data ranges: sets of literals over the value spaces of the OWL 2 datatype map.
 //!
-//! OWL 2 (Structural Specification §4) gives xsd:decimal (with xsd:integer inside it),
-//! xsd:double and xsd:float disjoint value spaces. A range is a finite union of interval
-//! pieces in each space, closed under intersection and complement, so emptiness is decidable.
-//! Every other literal (strings, dates…) falls into one infinite "other" space, which only
-//! rdfs:Literal and complements reach. Numbers are held as `f64`; decimals beyond its precision
-//! are rounded (documented limit).
+//! OWL 2 (Structural Specification §4) gives each family of datatypes its own value space,
+//! pairwise disjoint: the reals (owl:real ⊇ owl:rational ⊇ xsd:decimal ⊇ xsd:integer),
+//! xsd:double, xsd:float, xsd:boolean, the plain literals (xsd:string and its subtypes,
+//! language-tagged strings), xsd:anyURI, xsd:hexBinary, xsd:base64Binary and xsd:dateTime.
+//! A range holds one exact set per space (interval unions for ordered spaces, automata for
+//! string-like spaces, see [`crate::kb::datatype`]) plus a flag for literals of datatypes
+//! outside the map, which only rdfs:Literal and complements reach. Every space is closed
+//! under intersection, union and complement with decidable emptiness and counting.
 
+use super::datatype::automaton::Dfa;
+use super::datatype::datetime::TimeSet;
+use super::datatype::float::{FloatSet, Width};
+use super::datatype::real::{REAL, RPiece, RealSet};
+use super::datatype::{text, universe};
 use std::collections::HashMap;
 
 /// Index of an interned data range.
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord)]
 pub struct DataRangeId(pub u32);
 
-/// One of the numeric value spaces.
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord)]
-pub enum Space {
-    /// xsd:decimal, xsd:integer and its subtypes, owl:real, owl:rational.
-    Decimal = 0,
-    /// xsd:double.
-    Double = 1,
-    /// xsd:float.
-    Float = 2,
+/// Which string-like space an automaton belongs to.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum TextSpace {
+    /// Strings, and strings with a language tag after a U+0000 separator.
+    Plain,
+    /// xsd:anyURI.
+    Uri,
+    /// xsd:hexBinary octets.
+    Hex,
+    /// xsd:base64Binary octets.
+    Base64,
 }
 
-/// Which numbers of an interval a piece keeps (integers only matter in the decimal space).
-#[derive(Clone, Copy, Debug, PartialEq, Eq, Hash, PartialOrd, Ord)]
-pub enum Kind {
-    /// Every number in the interval.
-    Any,
-    /// Only the integers in the interval.
-    Int,
-    /// Only the non-integers in the interval.
-    NonInt,
-}
-
-/// A bound of an interval: the value and whether it is included.
-#[derive(Clone, Copy, Debug, PartialEq)]
-pub struct Bound {
-    /// The bounding value, possibly infinite.
-    pub value: f64,
-    /// Whether the value itself belongs to the interval.
-    pub inclusive: bool,
-}
-
-/// An interval of one value space, restricted by [`Kind`].
-#[derive(Clone, Copy, Debug, PartialEq)]
-pub struct Piece {
-    /// Lower bound.
-    pub lo: Bound,
-    /// Upper bound.
-    pub hi: Bound,
-    /// Integers, non-integers or both.
-    pub kind: Kind,
-}
-
-const NEG_INF: Bound = Bound {
-    value: f64::NEG_INFINITY,
-    inclusive: false,
-};
-const POS_INF: Bound = Bound {
-    value: f64::INFINITY,
-    inclusive: false,
-};
-
-impl Piece {
-    /// The whole space.
-    pub fn full(kind: Kind) -> Piece {
-        Piece {
-            lo: NEG_INF,
-            hi: POS_INF,
-            kind,
-        }
-    }
-
-    /// A single value.
-    pub fn point(v: f64) -> Piece {
-        let b = Bound {
-            value: v,
-            inclusive: true,
-        };
-        Piece {
-            lo: b,
-            hi: b,
-            kind: Kind::Any,
-        }
-    }
-
-    fn intersect(&self, o: &Piece) -> Option<Piece> {
-        let kind = match (self.kind, o.kind) {
-            (Kind::Any, k) | (k, Kind::Any) => k,
-            (a, b) if a == b => a,
-            _ => return None,
-        };
-        let lo =
-            if self.lo.value > o.lo.value || (self.lo.value == o.lo.value && !self.lo.inclusive) {
-                self.lo
-            } else {
-                o.lo
-            };
-        let hi =
-            if self.hi.value < o.hi.value || (self.hi.value == o.hi.value && !self.hi.inclusive) {
-                self.hi
-            } else {
-                o.hi
-            };
-        let p = Piece { lo, hi, kind };
-        if p.is_empty() { None } else { Some(p) }
-    }
-
-    /// Whether no number of the space lies in the piece.
-    pub fn is_empty(&self) -> bool {
-        let (lo, hi) = (self.lo, self.hi);
-        if lo.value > hi.value {
-            return true;
-        }
-        if lo.value == hi.value && !(lo.inclusive && hi.inclusive) {
-            return true;
-        }
-        match self.kind {
-            Kind::Any => false,
-            Kind::Int => {
-                // Smallest integer inside the lower bound, compared to the upper bound.
-                let first = if lo.value.is_infinite() {
-                    return hi.value.is_infinite() && hi.value < 0.0;
-                } else if lo.value.fract() == 0.0 && lo.inclusive {
-                    lo.value
-                } else {
-                    lo.value.floor() + 1.0
-                };
-                if hi.value.is_infinite() {
-                    return false;
-                }
-                first > hi.value || (first == hi.value && !hi.inclusive)
-            }
-            Kind::NonInt => lo.value == hi.value && lo.value.fract() == 0.0,
-        }
-    }
-
-    /// The complement of the piece within its space, as up to three pieces.
-    fn complement(&self) -> Vec<Piece> {
-        let mut out = Vec::new();
-        if self.lo.value != f64::NEG_INFINITY {
-            out.push(Piece {
-                lo: NEG_INF,
-                hi: Bound {
-                    value: self.lo.value,
-                    inclusive: !self.lo.inclusive,
-                },
-                kind: Kind::Any,
-            });
-        }
-        if self.hi.value != f64::INFINITY {
-            out.push(Piece {
-                lo: Bound {
-                    value: self.hi.value,
-                    inclusive: !self.hi.inclusive,
-                },
-                hi: POS_INF,
-                kind: Kind::Any,
-            });
-        }
-        match self.kind {
-            Kind::Any => {}
-            Kind::Int => out.push(Piece {
-                kind: Kind::NonInt,
-                ..*self
-            }),
-            Kind::NonInt => out.push(Piece {
-                kind: Kind::Int,
-                ..*self
-            }),
-        }
-        out.retain(|p| !p.is_empty());
-        out
-    }
-}
-
-/// A data range: a union of pieces in each numeric space, plus possibly every other literal.
-#[derive(Clone, Debug, PartialEq, Default)]
+/// A data range: one set per value space.
+#[derive(Clone, Debug, PartialEq, Eq, Hash)]
 pub struct DataRange {
-    /// Pieces per [`Space`], indexed by `Space as usize`.
-    pub spaces: [Vec<Piece>; 3],
-    /// Whether the range holds every non-numeric literal.
+    /// owl:real and its subtypes.
+    pub real: RealSet,
+    /// xsd:double.
+    pub double: FloatSet,
+    /// xsd:float.
+    pub float: FloatSet,
+    /// xsd:boolean: bit 0 false, bit 1 true.
+    pub boolean: u8,
+    /// Strings and language-tagged strings.
+    pub plain: Dfa,
+    /// xsd:anyURI.
+    pub uri: Dfa,
+    /// xsd:hexBinary.
+    pub hex: Dfa,
+    /// xsd:base64Binary.
+    pub base64: Dfa,
+    /// xsd:dateTime.
+    pub time: TimeSet,
+    /// Literals of datatypes outside the OWL 2 datatype map.
     pub other: bool,
+}
+
+impl Default for DataRange {
+    fn default() -> Self {
+        DataRange {
+            real: RealSet::default(),
+            double: FloatSet::default(),
+            float: FloatSet::default(),
+            boolean: 0,
+            plain: Dfa::nothing(),
+            uri: Dfa::nothing(),
+            hex: Dfa::nothing(),
+            base64: Dfa::nothing(),
+            time: TimeSet::default(),
+            other: false,
+        }
+    }
+}
+
+fn dfa_and(a: &Dfa, b: &Dfa, u: &Dfa) -> Dfa {
+    if a.is_nothing() || b.is_nothing() {
+        Dfa::nothing()
+    } else if a == u || a == b {
+        b.clone()
+    } else if b == u {
+        a.clone()
+    } else {
+        a.and(b)
+    }
+}
+
+fn dfa_or(a: &Dfa, b: &Dfa) -> Dfa {
+    if a.is_nothing() || a == b {
+        b.clone()
+    } else if b.is_nothing() {
+        a.clone()
+    } else {
+        a.or(b)
+    }
+}
+
+fn dfa_not(a: &Dfa, u: &Dfa) -> Dfa {
+    if a.is_nothing() {
+        u.clone()
+    } else if a == u {
+        Dfa::nothing()
+    } else {
+        u.and(&a.complement())
+    }
 }
 
 impl DataRange {
@@ -194,116 +115,121 @@ impl DataRange {
 
     /// rdfs:Literal: every literal.
     pub fn everything() -> DataRange {
+        DataRange::empty().complement()
+    }
+
+    /// Reals in one piece.
+    pub fn real(p: RPiece) -> DataRange {
         DataRange {
-            spaces: [
-                vec![Piece::full(Kind::Any)],
-                vec![Piece::full(Kind::Any)],
-                vec![Piece::full(Kind::Any)],
-            ],
-            other: true,
+            real: RealSet::piece(p),
+            ..DataRange::empty()
         }
     }
 
-    /// A whole space, restricted by kind.
-    pub fn space(space: Space, kind: Kind) -> DataRange {
+    /// The automaton of one string-like space.
+    pub fn text(space: TextSpace, d: Dfa) -> DataRange {
         let mut r = DataRange::empty();
-        r.spaces[space as usize].push(Piece::full(kind));
+        *r.text_mut(space) = d;
         r
     }
 
-    /// One piece in one space.
-    pub fn piece(space: Space, p: Piece) -> DataRange {
-        let mut r = DataRange::empty();
-        if !p.is_empty() {
-            r.spaces[space as usize].push(p);
+    fn text_mut(&mut self, s: TextSpace) -> &mut Dfa {
+        match s {
+            TextSpace::Plain => &mut self.plain,
+            TextSpace::Uri => &mut self.uri,
+            TextSpace::Hex => &mut self.hex,
+            TextSpace::Base64 => &mut self.base64,
         }
-        r
     }
 
     /// Whether the range holds no literal at all.
     pub fn is_empty(&self) -> bool {
-        !self.other && self.spaces.iter().all(|s| s.iter().all(Piece::is_empty))
+        !self.other
+            && self.boolean == 0
+            && self.real.is_empty()
+            && self.double.is_empty()
+            && self.float.is_empty()
+            && self.time.is_empty()
+            && self.plain.is_empty()
+            && self.uri.is_empty()
+            && self.hex.is_empty()
+            && self.base64.is_empty()
+    }
+
+    /// How many literals the range holds: `None` when infinite or more than `cap`.
+    pub fn count(&self, cap: u64) -> Option<u64> {
+        if self.other {
+            return None;
+        }
+        let mut n = u64::from(self.boolean.count_ones());
+        for c in [
+            self.real.count(cap)?,
+            self.double.count(cap)?,
+            self.float.count(cap)?,
+            self.time.count(cap)?,
+            self.plain.count(cap)?,
+            self.uri.count(cap)?,
+            self.hex.count(cap)?,
+            self.base64.count(cap)?,
+        ] {
+            n = n.checked_add(c)?;
+        }
+        (n <= cap).then_some(n)
     }
 
     /// Intersection.
     pub fn intersect(&self, o: &DataRange) -> DataRange {
-        let mut r = DataRange {
+        let u = universe();
+        DataRange {
+            real: self.real.intersect(&o.real),
+            double: self.double.intersect(&o.double),
+            float: self.float.intersect(&o.float),
+            boolean: self.boolean & o.boolean,
+            plain: dfa_and(&self.plain, &o.plain, &u.plain),
+            uri: dfa_and(&self.uri, &o.uri, &u.uri),
+            hex: dfa_and(&self.hex, &o.hex, &u.hex),
+            base64: dfa_and(&self.base64, &o.base64, &u.base64),
+            time: self.time.intersect(&o.time),
             other: self.other && o.other,
-            ..Default::default()
-        };
-        for s in 0..3 {
-            for a in &self.spaces[s] {
-                for b in &o.spaces[s] {
-                    if let Some(p) = a.intersect(b) {
-                        r.spaces[s].push(p);
-                    }
-                }
-            }
         }
-        r.simplify();
-        r
     }
 
     /// Union.
     pub fn union(&self, o: &DataRange) -> DataRange {
-        let mut r = self.clone();
-        r.other |= o.other;
-        for s in 0..3 {
-            r.spaces[s].extend(o.spaces[s].iter().copied());
+        DataRange {
+            real: self.real.union(&o.real),
+            double: self.double.union(&o.double),
+            float: self.float.union(&o.float),
+            boolean: self.boolean | o.boolean,
+            plain: dfa_or(&self.plain, &o.plain),
+            uri: dfa_or(&self.uri, &o.uri),
+            hex: dfa_or(&self.hex, &o.hex),
+            base64: dfa_or(&self.base64, &o.base64),
+            time: self.time.union(&o.time),
+            other: self.other || o.other,
         }
-        r.simplify();
-        r
     }
 
     /// Complement with respect to all literals.
     pub fn complement(&self) -> DataRange {
-        let mut r = DataRange {
+        let u = universe();
+        DataRange {
+            real: self.real.complement(REAL),
+            double: self.double.complement(Width::Double),
+            float: self.float.complement(Width::Float),
+            boolean: !self.boolean & 3,
+            plain: dfa_not(&self.plain, &u.plain),
+            uri: dfa_not(&self.uri, &u.uri),
+            hex: dfa_not(&self.hex, &u.hex),
+            base64: dfa_not(&self.base64, &u.base64),
+            time: self.time.complement(),
             other: !self.other,
-            ..Default::default()
-        };
-        for s in 0..3 {
-            // Complement of a union is the intersection of the pieces' complements.
-            let mut acc = vec![Piece::full(Kind::Any)];
-            for p in &self.spaces[s] {
-                let comp = p.complement();
-                let mut next = Vec::new();
-                for a in &acc {
-                    for b in &comp {
-                        if let Some(x) = a.intersect(b) {
-                            next.push(x);
-                        }
-                    }
-                }
-                acc = next;
-            }
-            r.spaces[s] = acc;
         }
-        r.simplify();
-        r
     }
 
-    fn simplify(&mut self) {
-        for s in self.spaces.iter_mut() {
-            s.retain(|p| !p.is_empty());
-            s.sort_by(|a, b| {
-                (
-                    a.lo.value,
-                    !a.lo.inclusive,
-                    a.hi.value,
-                    a.hi.inclusive,
-                    a.kind as u8,
-                )
-                    .partial_cmp(&(
-                        b.lo.value,
-                        !b.lo.inclusive,
-                        b.hi.value,
-                        b.hi.inclusive,
-                        b.kind as u8,
-                    ))
-                    .unwrap_or(std::cmp::Ordering::Equal)
-            });
-            s.dedup();
-        }
+    /// Short text of the range, e.g. `decimal[≥ 30]`.
+    pub fn describe(&self) -> String {
+        text::describe(self)
     }
 
     fn key(&self) -> String {
@@ -333,7 +259,7 @@ impl DataRangeStore {
 
     /// The range behind an id.
     pub fn get(&self, id: DataRangeId) -> &DataRange {
-        &self.ranges[id.0 as usize]
+        &self.ranges[id.index()]
     }
 
     /// Interns the complement of a range.
@@ -343,86 +269,65 @@ impl DataRangeStore {
     }
 }
 
+impl DataRangeId {
+    /// Index for array look-ups.
+    pub fn index(self) -> usize {
+        self.0 as usize
+    }
+}
+
 #[cfg(test)]
 mod tests {
+    use super::super::datatype::{literal, named};
     use super::*;
 
-    fn int_range(lo: f64, lo_inc: bool, hi: f64, hi_inc: bool) -> DataRange {
-        DataRange::piece(
-            Space::Decimal,
-            Piece {
-                lo: Bound {
-                    value: lo,
-                    inclusive: lo_inc,
-                },
-                hi: Bound {
-                    value: hi,
-                    inclusive: hi_inc,
-                },
-                kind: Kind::Int,
-            },
-        )
+    const XSD: &str = "http://www.w3.org/2001/XMLSchema#";
+
+    fn dt(local: &str) -> DataRange {
+        named(&format!("{XSD}{local}")).unwrap()
+    }
+
+    fn lit(lex: &str, local: &str) -> DataRange {
+        literal(lex, Some(&format!("{XSD}{local}")), None).unwrap()
     }
 
     #[test]
-    fn integer_gaps() {
-        // xsd:integer restricted to (3, 4) is empty; [3, 4) holds 3 (XML Schema 2 facet semantics).
-        assert!(int_range(3.0, false, 4.0, false).is_empty());
-        assert!(!int_range(3.0, true, 4.0, false).is_empty());
-        assert!(!int_range(2.5, false, 3.5, false).is_empty());
-        assert!(int_range(2.1, true, 2.9, true).is_empty());
-    }
-
-    #[test]
-    fn decimal_is_dense() {
-        let d = DataRange::piece(
-            Space::Decimal,
-            Piece {
-                lo: Bound {
-                    value: 3.0,
-                    inclusive: false,
-                },
-                hi: Bound {
-                    value: 4.0,
-                    inclusive: false,
-                },
-                kind: Kind::Any,
-            },
-        );
-        assert!(!d.is_empty());
-        // The non-integers of (3, 4) are all of it, so integer ∩ (3,4) is empty.
+    fn value_spaces_are_disjoint() {
+        // OWL 2 Structural Specification §4: decimal, double, float, string, anyURI,
+        // boolean, dateTime and the binary types have pairwise disjoint value spaces.
+        let all = [
+            "decimal",
+            "double",
+            "float",
+            "string",
+            "anyURI",
+            "boolean",
+            "dateTime",
+            "hexBinary",
+            "base64Binary",
+        ];
+        for (i, a) in all.iter().enumerate() {
+            for b in &all[i + 1..] {
+                assert!(dt(a).intersect(&dt(b)).is_empty(), "{a} ∩ {b}");
+            }
+            assert!(!dt(a).is_empty());
+        }
+        // xsd:integer ⊂ xsd:decimal; the literal "1"^^integer equals "1.0"^^decimal.
+        assert_eq!(lit("1", "integer"), lit("1.0", "decimal"));
         assert!(
-            d.intersect(&DataRange::space(Space::Decimal, Kind::Int))
+            lit("1", "integer")
+                .intersect(&lit("1.0E0", "double"))
                 .is_empty()
         );
     }
 
     #[test]
-    fn complement_laws() {
-        let a = int_range(0.0, true, 10.0, true);
-        let c = a.complement();
-        assert!(a.intersect(&c).is_empty());
-        assert!(
-            c.complement()
-                .intersect(&a.complement())
-                .intersect(&a)
-                .is_empty()
-        );
-        // 5.5 is in the complement (non-integer), 5 is not.
-        assert!(
-            !c.intersect(&DataRange::piece(Space::Decimal, Piece::point(5.5)))
-                .is_empty()
-        );
-        assert!(
-            c.intersect(&DataRange::piece(Space::Decimal, Piece::point(5.0)))
-                .is_empty()
-        );
-        // Doubles and decimals are disjoint value spaces (OWL 2 Structural Specification §4.2).
-        let dbl = DataRange::space(Space::Double, Kind::Any);
-        assert!(
-            dbl.intersect(&DataRange::space(Space::Decimal, Kind::Any))
-                .is_empty()
-        );
-        assert!(!dbl.intersect(&c).is_empty());
+    fn complement_and_everything() {
+        let s = dt("string");
+        let c = s.complement();
+        assert!(s.intersect(&c).is_empty());
+        assert_eq!(s.union(&c), DataRange::everything());
+        assert_eq!(c.complement(), s);
+        assert_eq!(dt("boolean").count(10), Some(2));
     }
 }

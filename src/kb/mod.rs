@@ -3,6 +3,7 @@
 
 pub mod concept;
 pub mod datarange;
+pub mod datatype;
 pub mod error;
 pub mod load;
 pub mod owl;

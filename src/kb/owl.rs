@@ -1,7 +1,8 @@
 //! Converting horned-owl's model of an OWL 2 ontology into the internal knowledge base
 //! (reading the files is `kb/load`'s job).
 
-use super::datarange::{Bound, DataRange, Kind, Piece, Space};
+use super::datarange::DataRange;
+use super::datatype;
 use super::{AnnotationValue, Axiom, ConceptId, IndividualId, KbError, KnowledgeBase, RoleId};
 use horned_owl::io::ofn::writer::AsFunctional;
 use horned_owl::model::{
@@ -9,10 +10,8 @@ use horned_owl::model::{
     DataRange as HDataRange, Individual, Literal, ObjectPropertyExpression as OPE,
     PropertyExpression, SubObjectPropertyExpression,
 };
-use horned_owl::vocab::Facet;
 
 pub(super) const XSD: &str = "http://www.w3.org/2001/XMLSchema#";
-const RDFS_LITERAL: &str = "http://www.w3.org/2000/01/rdf-schema#Literal";
 pub(super) const OWL: &str = "http://www.w3.org/2002/07/owl#";
 
 /// Turns horned-owl's components into the knowledge base's axioms, one file at a time.
@@ -607,17 +606,28 @@ impl Converter<'_> {
                 let r = self.literal_range(l)?;
                 self.data_some(p, r)
             }
-            CE::DataMinCardinality { .. }
-            | CE::DataMaxCardinality { .. }
-            | CE::DataExactCardinality { .. } => {
-                return Err("data cardinality restrictions are not supported".into());
+            CE::DataMinCardinality { n, dp, dr }
+            | CE::DataMaxCardinality { n, dp, dr }
+            | CE::DataExactCardinality { n, dp, dr } => {
+                let p = self.kb.vocab.data_prop(&dp.0);
+                let r = self.data_range(dr)?;
+                let not_r = r.complement();
+                let (a, b) = (self.kb.ranges.intern(r), self.kb.ranges.intern(not_r));
+                let cs = &mut self.kb.concepts;
+                let min = cs.data_at_least(*n, p, a, b);
+                let max = cs.data_at_most(*n, p, a, b);
+                match e {
+                    CE::DataMinCardinality { .. } => min,
+                    CE::DataMaxCardinality { .. } => max,
+                    _ => cs.and([min, max]),
+                }
             }
         })
     }
 
     fn data_range(&mut self, d: &HDataRange<ArcStr>) -> Conv<DataRange> {
         Ok(match d {
-            HDataRange::Datatype(dt) => datatype_range(&dt.0)?,
+            HDataRange::Datatype(dt) => datatype::named(&dt.0)?,
             HDataRange::DataIntersectionOf(xs) => {
                 let mut acc = DataRange::everything();
                 for x in xs {
@@ -641,175 +651,34 @@ impl Converter<'_> {
                 acc
             }
             HDataRange::DatatypeRestriction(dt, facets) => {
-                let mut acc = datatype_range(&dt.0)?;
-                for f in facets {
-                    let (_, v) = literal_value(&f.l)?;
-                    let b = |inclusive| Bound {
-                        value: v,
-                        inclusive,
-                    };
-                    let inf = Bound {
-                        value: f64::INFINITY,
-                        inclusive: false,
-                    };
-                    let ninf = Bound {
-                        value: f64::NEG_INFINITY,
-                        inclusive: false,
-                    };
-                    let piece = match f.f {
-                        Facet::MinInclusive => Piece {
-                            lo: b(true),
-                            hi: inf,
-                            kind: Kind::Any,
-                        },
-                        Facet::MinExclusive => Piece {
-                            lo: b(false),
-                            hi: inf,
-                            kind: Kind::Any,
-                        },
-                        Facet::MaxInclusive => Piece {
-                            lo: ninf,
-                            hi: b(true),
-                            kind: Kind::Any,
-                        },
-                        Facet::MaxExclusive => Piece {
-                            lo: ninf,
-                            hi: b(false),
-                            kind: Kind::Any,
-                        },
-                        _ => {
-                            return Err(format!(
-                                "facet {:?} is not supported (only min/max inclusive/exclusive)",
-                                f.f
-                            ));
-                        }
-                    };
-                    let mut all = DataRange::empty();
-                    for s in [Space::Decimal, Space::Double, Space::Float] {
-                        all.spaces[s as usize].push(piece);
-                    }
-                    acc = acc.intersect(&all);
-                }
-                acc
+                let fs: Vec<_> = facets
+                    .iter()
+                    .map(|f| {
+                        let (lex, dt, lang) = literal_parts(&f.l);
+                        (f.f.as_ref().to_string(), lex, dt, lang)
+                    })
+                    .collect();
+                datatype::restrict(&dt.0, &fs)?
             }
         })
     }
 
     fn literal_range(&mut self, l: &Literal<ArcStr>) -> Conv<DataRange> {
-        let (space, v) = literal_value(l)?;
-        Ok(DataRange::piece(space, Piece::point(v)))
+        let (lex, dt, lang) = literal_parts(l);
+        datatype::literal(&lex, dt.as_deref(), lang.as_deref())
     }
 }
 
-/// The value range of a built-in datatype.
-fn datatype_range(iri: &str) -> Conv<DataRange> {
-    if iri == RDFS_LITERAL {
-        return Ok(DataRange::everything());
-    }
-    let int = |lo: f64, hi: f64| {
-        DataRange::piece(
-            Space::Decimal,
-            Piece {
-                lo: Bound {
-                    value: lo,
-                    inclusive: lo.is_finite(),
-                },
-                hi: Bound {
-                    value: hi,
-                    inclusive: hi.is_finite(),
-                },
-                kind: Kind::Int,
-            },
-        )
-    };
-    let inf = f64::INFINITY;
-    if let Some(local) = iri.strip_prefix(XSD) {
-        return Ok(match local {
-            "integer" => int(-inf, inf),
-            "nonNegativeInteger" => int(0.0, inf),
-            "positiveInteger" => int(1.0, inf),
-            "nonPositiveInteger" => int(-inf, 0.0),
-            "negativeInteger" => int(-inf, -1.0),
-            "long" => int(-9223372036854775808.0, 9223372036854775807.0),
-            "int" => int(-2147483648.0, 2147483647.0),
-            "short" => int(-32768.0, 32767.0),
-            "byte" => int(-128.0, 127.0),
-            "unsignedLong" => int(0.0, 18446744073709551615.0),
-            "unsignedInt" => int(0.0, 4294967295.0),
-            "unsignedShort" => int(0.0, 65535.0),
-            "unsignedByte" => int(0.0, 255.0),
-            "decimal" => DataRange::space(Space::Decimal, Kind::Any),
-            "double" => DataRange::space(Space::Double, Kind::Any),
-            "float" => DataRange::space(Space::Float, Kind::Any),
-            _ => {
-                return Err(format!(
-                    "datatype xsd:{local} is not supported (numeric types only)"
-                ));
-            }
-        });
-    }
-    if iri == format!("{OWL}real") || iri == format!("{OWL}rational") {
-        return Ok(DataRange::space(Space::Decimal, Kind::Any));
-    }
-    Err(format!(
-        "datatype <{iri}> is not supported (numeric XML Schema types only)"
-    ))
-}
-
-/// The value space and number of a numeric literal.
-fn literal_value(l: &Literal<ArcStr>) -> Conv<(Space, f64)> {
-    let (lex, dt) = match l {
+/// A literal as (lexical form, datatype IRI, language tag); plain literals have no datatype.
+fn literal_parts(l: &Literal<ArcStr>) -> (String, Option<String>, Option<String>) {
+    match l {
+        Literal::Simple { literal } => (literal.clone(), None, None),
+        Literal::Language { literal, lang } => (literal.clone(), None, Some(lang.clone())),
         Literal::Datatype {
             literal,
             datatype_iri,
-        } => (literal.trim(), datatype_iri.to_string()),
-        Literal::Simple { literal } | Literal::Language { literal, .. } => {
-            return Err(format!(
-                "literal \"{literal}\" is a string; only numeric literals are supported"
-            ));
-        }
-    };
-    let local = dt.strip_prefix(XSD).unwrap_or("");
-    let bad = || format!("literal \"{lex}\" is not a valid {dt}");
-    let space = match local {
-        "double" => Space::Double,
-        "float" => Space::Float,
-        _ => {
-            let r = datatype_range(&dt)?;
-            if r.spaces[Space::Decimal as usize].is_empty() {
-                return Err(format!("literal of datatype <{dt}> is not numeric"));
-            }
-            Space::Decimal
-        }
-    };
-    let v = match space {
-        Space::Decimal => {
-            let ok = !lex.is_empty()
-                && lex.chars().enumerate().all(|(i, c)| {
-                    c.is_ascii_digit() || c == '.' || (i == 0 && (c == '+' || c == '-'))
-                })
-                && lex.matches('.').count() <= 1
-                && lex.chars().any(|c| c.is_ascii_digit());
-            if !ok {
-                return Err(bad());
-            }
-            let v: f64 = lex.parse().map_err(|_| bad())?;
-            let int_type = datatype_range(&dt)?.spaces[0]
-                .iter()
-                .all(|p| p.kind == Kind::Int);
-            if int_type && (lex.contains('.') || v.fract() != 0.0) {
-                return Err(bad());
-            }
-            v
-        }
-        _ => match lex {
-            "INF" | "+INF" => f64::INFINITY,
-            "-INF" => f64::NEG_INFINITY,
-            "NaN" => return Err(format!("literal \"{lex}\" (NaN) is not supported")),
-            _ => lex.parse::<f64>().map_err(|_| bad())?,
-        },
-    };
-    Ok((space, v))
+        } => (literal.clone(), Some(datatype_iri.to_string()), None),
+    }
 }
 
 /// The value of a restriction on the bottom property (no element has a successor) or of a

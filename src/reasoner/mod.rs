@@ -1,4 +1,4 @@
-//! The tableau reasoner for SHIQ with numeric data ranges: consistency, satisfiability,
+//! The tableau reasoner for SHIQ with data ranges over the OWL 2 datatype map: consistency, satisfiability,
 //! subsumption, instance checking, classification and models.
 //!
 //! Every answer is [`Answer::Yes`], [`Answer::No`] or [`Answer::Unknown`] with the limit that
@@ -7,6 +7,7 @@
 pub mod automata;
 pub mod cache;
 pub mod classify;
+pub mod datavalues;
 pub mod depset;
 pub mod prepare;
 pub mod tableau;

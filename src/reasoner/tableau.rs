@@ -1,5 +1,5 @@
 //! The completion-graph tableau for SHIQ (Horrocks, Sattler & Tobies 1999/2000) with
-//! numeric data ranges, ABox root nodes and ObjectHasValue fillers.
+//! data ranges and data number restrictions, ABox root nodes and ObjectHasValue fillers.
 //!
 //! One solver state, declared parts: the completion [`Graph`] (copied at branching points,
 //! which is the trail), the branching stack, the dependency table and statistics.
@@ -8,15 +8,22 @@
 //! satisfiability caching kept sound with inverse roles (see [`super::cache`]).
 
 use super::cache::SatCache;
+use super::datavalues;
 use super::depset::{Dep, DepTable};
 use super::prepare::Prepared;
 use super::{Extra, Limit, Limits, Stats};
 use crate::kb::datarange::DataRange;
-use crate::kb::{Concept, ConceptId, ConceptStore, DataRangeStore, IndividualId, RoleId};
+use crate::kb::{
+    Concept, ConceptId, ConceptStore, DataPropId, DataRangeId, DataRangeStore, IndividualId, RoleId,
+};
 use std::collections::{HashMap, VecDeque};
 use std::rc::Rc;
 
 type NodeId = usize;
+
+/// Work budget of one node's search for data values with number restrictions (steps of
+/// [`datavalues::check`]); past it the test stops with "limit reached".
+const DATA_BUDGET: u64 = 200_000;
 type EdgeId = usize;
 
 /// A node label's membership and dependencies: a vector sorted by concept id, cheap to copy
@@ -446,7 +453,10 @@ impl<'a> Tableau<'a> {
             }
             Concept::AtMost(..) => node.at_mosts.push(c),
             Concept::All(..) | Concept::AllPath(..) => node.alls.push(c),
-            Concept::DataSome(..) | Concept::DataAll(..) => node.data_dirty = true,
+            Concept::DataSome(..)
+            | Concept::DataAll(..)
+            | Concept::DataAtLeast(..)
+            | Concept::DataAtMost(..) => node.data_dirty = true,
             _ => {}
         }
         if !node.in_queue {
@@ -773,7 +783,7 @@ impl<'a> Tableau<'a> {
                     }
                 }
             }
-            Concept::DataSome(dp, _) => {
+            Concept::DataSome(dp, _) | Concept::DataAtLeast(_, dp, _) => {
                 for q in &p.data_supers[dp.index()] {
                     for &t in &p.data_triggers[q.index()] {
                         self.add(x, t, dep);
@@ -802,12 +812,18 @@ impl<'a> Tableau<'a> {
         let p = self.prep;
         let mut somes = Vec::new();
         let mut alls = Vec::new();
+        let mut counted = false;
         for &c in &self.g.nodes[x].label {
             match *self.concepts.get(c) {
                 Concept::DataSome(dp, r) => somes.push((dp, r, self.g.nodes[x].deps[&c])),
                 Concept::DataAll(dp, r) => alls.push((dp, r, self.g.nodes[x].deps[&c])),
+                Concept::DataAtLeast(..) | Concept::DataAtMost(..) => counted = true,
                 _ => {}
             }
+        }
+        if counted {
+            self.check_data_counts(x, &alls);
+            return;
         }
         if somes.is_empty() {
             return;
@@ -819,20 +835,7 @@ impl<'a> Tableau<'a> {
         // The range each value must lie in.
         let eff: Vec<DataRange> = somes
             .iter()
-            .map(|&(dp, r, _)| {
-                let mut acc = self.ranges.get(r).clone();
-                for &(q, e, _) in &alls {
-                    if p.data_supers[dp.index()].contains(&q) {
-                        acc = acc.intersect(self.ranges.get(e));
-                    }
-                }
-                for q in &p.data_supers[dp.index()] {
-                    for &rr in &p.data_ranges[q.index()] {
-                        acc = acc.intersect(self.ranges.get(rr));
-                    }
-                }
-                acc
-            })
+            .map(|&(dp, r, _)| self.effective_range(dp, r, &alls))
             .collect();
         // Values of properties under a common functional property coincide.
         let n = somes.len();
@@ -873,6 +876,92 @@ impl<'a> Tableau<'a> {
                 self.set_clash(d);
                 return;
             }
+        }
+    }
+
+    /// The range a value of `dp` must lie in at a node: `r` cut by the node's ∀ restrictions
+    /// and the range axioms of `dp`'s super-properties.
+    fn effective_range(
+        &self,
+        dp: DataPropId,
+        r: DataRangeId,
+        alls: &[(DataPropId, DataRangeId, Dep)],
+    ) -> DataRange {
+        let p = self.prep;
+        let mut acc = self.ranges.get(r).clone();
+        for &(q, e, _) in alls {
+            if p.data_supers[dp.index()].contains(&q) {
+                acc = acc.intersect(self.ranges.get(e));
+            }
+        }
+        for q in &p.data_supers[dp.index()] {
+            for &rr in &p.data_ranges[q.index()] {
+                acc = acc.intersect(self.ranges.get(rr));
+            }
+        }
+        acc
+    }
+
+    /// The data check of a node with data number restrictions: the search of
+    /// [`datavalues`] over the values the node needs. The clash depends on every data
+    /// concept of the node (coarse, but sound for backjumping).
+    fn check_data_counts(&mut self, x: NodeId, alls: &[(DataPropId, DataRangeId, Dep)]) {
+        let p = self.prep;
+        let mut needs = Vec::new();
+        let mut caps = Vec::new();
+        let mut dep = Dep::EMPTY;
+        let mut group = 0u32;
+        let label: Vec<ConceptId> = self.g.nodes[x].label.to_vec();
+        for c in label {
+            let (need_n, dp, r, grouped) = match *self.concepts.get(c) {
+                Concept::DataSome(dp, r) => (1, dp, r, false),
+                Concept::DataAtLeast(n, dp, r) => (n, dp, r, true),
+                Concept::DataAtMost(m, q, e) => {
+                    caps.push(datavalues::Cap {
+                        prop: q,
+                        range: self.ranges.get(e).clone(),
+                        max: m,
+                    });
+                    dep = self.deps.union(dep, self.g.nodes[x].deps[&c]);
+                    continue;
+                }
+                Concept::DataAll(..) => {
+                    dep = self.deps.union(dep, self.g.nodes[x].deps[&c]);
+                    continue;
+                }
+                _ => continue,
+            };
+            dep = self.deps.union(dep, self.g.nodes[x].deps[&c]);
+            let range = self.effective_range(dp, r, alls);
+            for _ in 0..need_n {
+                needs.push(datavalues::Need {
+                    prop: dp,
+                    range: range.clone(),
+                    group: grouped.then_some(group),
+                });
+            }
+            group += 1;
+        }
+        // A functional property is ≤1 q.⊤.
+        let mut functional: Vec<DataPropId> = needs
+            .iter()
+            .flat_map(|n| p.data_supers[n.prop.index()].iter().copied())
+            .filter(|q| p.data_functional[q.index()])
+            .collect();
+        functional.sort_unstable();
+        functional.dedup();
+        for q in functional {
+            caps.push(datavalues::Cap {
+                prop: q,
+                range: DataRange::everything(),
+                max: 1,
+            });
+        }
+        let applies = |a: DataPropId, b: DataPropId| p.data_supers[a.index()].contains(&b);
+        match datavalues::check(&needs, &caps, &applies, DATA_BUDGET) {
+            datavalues::Verdict::Sat => {}
+            datavalues::Verdict::Unsat => self.set_clash(dep),
+            datavalues::Verdict::Budget => self.stopped = Some(Limit::Nodes),
         }
     }
 

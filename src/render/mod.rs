@@ -670,6 +670,16 @@ pub fn dl_concept(kb: &KnowledgeBase, c: crate::kb::ConceptId) -> String {
         Concept::NotSelf(r) => format!("¬∃{}.Self", role(*r)),
         Concept::AllPath(r, q, x) => format!("∀{}[{q}].{}", role(*r), paren(*x)),
         Concept::SomePath(r, q, x) => format!("∃{}[{q}].{}", role(*r), paren(*x)),
+        Concept::DataAtLeast(n, p, d) => format!(
+            "≥{n} {}.{}",
+            short(&kb.vocab.data_props[p.index()]),
+            words::range_text(kb.ranges.get(*d))
+        ),
+        Concept::DataAtMost(n, p, d) => format!(
+            "≤{n} {}.{}",
+            short(&kb.vocab.data_props[p.index()]),
+            words::range_text(kb.ranges.get(*d))
+        ),
     }
 }
 

@@ -5,7 +5,7 @@
 
 use crate::explain::Assertion;
 use crate::facts::abox::CASE_NS;
-use crate::kb::datarange::{DataRange, Kind};
+use crate::kb::datarange::DataRange;
 use crate::kb::{Concept, KnowledgeBase};
 use std::collections::BTreeSet;
 
@@ -41,46 +41,7 @@ pub fn plain_band(d: f64) -> &'static str {
 
 /// A data range as short text, e.g. `decimal[≥ 30]`.
 pub fn range_text(r: &DataRange) -> String {
-    let mut parts = Vec::new();
-    for (i, name) in ["decimal", "double", "float"].iter().enumerate() {
-        for p in &r.spaces[i] {
-            let mut b = Vec::new();
-            if p.lo.value.is_finite() {
-                b.push(format!(
-                    "{} {}",
-                    if p.lo.inclusive { "≥" } else { ">" },
-                    p.lo.value
-                ));
-            }
-            if p.hi.value.is_finite() {
-                b.push(format!(
-                    "{} {}",
-                    if p.hi.inclusive { "≤" } else { "<" },
-                    p.hi.value
-                ));
-            }
-            let kind = match p.kind {
-                Kind::Int => "integer",
-                Kind::NonInt => "non-integer",
-                Kind::Any => name,
-            };
-            if p.lo.value == p.hi.value && p.lo.value.is_finite() {
-                parts.push(format!("{{{}}}", p.lo.value));
-            } else if b.is_empty() {
-                parts.push(kind.to_string());
-            } else {
-                parts.push(format!("{kind}[{}]", b.join(", ")));
-            }
-        }
-    }
-    if r.other {
-        parts.push("other literals".into());
-    }
-    if parts.is_empty() {
-        "∅".into()
-    } else {
-        parts.join(" ∪ ")
-    }
+    r.describe()
 }
 
 /// Verbaliser over one knowledge base.

@@ -793,6 +793,16 @@ fn manchester(s: &Session, kb: &KnowledgeBase, c: ConceptId) -> String {
         Concept::NotSelf(r) => format!("not ({} Self)", role(*r)),
         Concept::AllPath(r, _, x) => format!("{} only {}", role(*r), sub(*x)),
         Concept::SomePath(r, _, x) => format!("{} some {}", role(*r), sub(*x)),
+        Concept::DataAtLeast(n, p, d) => format!(
+            "{} min {n} {}",
+            s.names.short(&kb.vocab.data_props[p.index()]),
+            crate::render::words::range_text(kb.ranges.get(*d))
+        ),
+        Concept::DataAtMost(n, p, d) => format!(
+            "{} max {n} {}",
+            s.names.short(&kb.vocab.data_props[p.index()]),
+            crate::render::words::range_text(kb.ranges.get(*d))
+        ),
     }
 }
 

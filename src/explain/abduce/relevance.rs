@@ -264,9 +264,7 @@ impl Signature {
                 Locality::Bottom => rs.iter().any(|&r| out_role(r)),
             },
             Axiom::Reflexive(r) => l == Locality::Top && out_role(*r),
-            Axiom::Irreflexive(r) | Axiom::Asymmetric(r) => {
-                l == Locality::Bottom && out_role(*r)
-            }
+            Axiom::Irreflexive(r) | Axiom::Asymmetric(r) => l == Locality::Bottom && out_role(*r),
             Axiom::DisjointRoles(rs) => {
                 l == Locality::Bottom && rs.iter().filter(|&&r| !out_role(r)).count() <= 1
             }

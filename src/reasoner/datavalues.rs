@@ -1,0 +1,357 @@
+//! Whether a node's data constraints with number restrictions have a model: the data values
+//! a node needs, with ≥n and ≤n restrictions over data properties.
+//!
+//! Each ∃p.D needs one value in D, each ≥n p.D needs n pairwise distinct values in D; values
+//! may coincide otherwise, and a model never needs more values than these. So the question is
+//! whether the required values can be partitioned into classes (each class one literal) so
+//! that every ≤m q.E counts at most m classes with a q-value in E, and the classes can get
+//! pairwise distinct literals. The search enumerates partitions (the ≤-rule's merges), then
+//! for each class decides membership in each E that it straddles (the choose-rule), and
+//! checks distinctness by Hall's marriage condition on the classes with few candidate
+//! literals (Hall 1935). This is the datatype checking of Motik & Horrocks, "OWL Datatypes:
+//! Design and Implementation" (ISWC 2008), §4, specialised to our exact value spaces.
+
+use crate::kb::DataPropId;
+use crate::kb::datarange::DataRange;
+
+/// A value the node must have.
+#[derive(Clone, Debug)]
+pub struct Need {
+    /// The data property it is a value of.
+    pub prop: DataPropId,
+    /// Where the value must lie (already cut by ranges and ∀ restrictions).
+    pub range: DataRange,
+    /// Values of one ≥n restriction are pairwise distinct; they share a group number.
+    pub group: Option<u32>,
+}
+
+/// A ≤m q.E restriction at the node.
+#[derive(Clone, Debug)]
+pub struct Cap {
+    /// The property q.
+    pub prop: DataPropId,
+    /// The range E.
+    pub range: DataRange,
+    /// The bound m.
+    pub max: u32,
+}
+
+/// The outcome of the search.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub enum Verdict {
+    /// Some assignment of values satisfies everything.
+    Sat,
+    /// None does.
+    Unsat,
+    /// The work budget ran out first.
+    Budget,
+}
+
+struct Class {
+    range: DataRange,
+    groups: Vec<u32>,
+    /// Which caps apply (the class holds a value of a sub-property of the cap's property).
+    caps: Vec<bool>,
+}
+
+struct Search<'a> {
+    needs: &'a [Need],
+    caps: &'a [Cap],
+    applies: &'a dyn Fn(DataPropId, DataPropId) -> bool,
+    budget: u64,
+}
+
+/// Decides whether the needs and caps have a model; `applies(p, q)` says p ⊑* q. Works at
+/// most `budget` steps.
+pub fn check(
+    needs: &[Need],
+    caps: &[Cap],
+    applies: &dyn Fn(DataPropId, DataPropId) -> bool,
+    budget: u64,
+) -> Verdict {
+    if needs.iter().any(|n| n.range.is_empty()) {
+        return Verdict::Unsat;
+    }
+    let mut s = Search {
+        needs,
+        caps,
+        applies,
+        budget,
+    };
+    let mut classes = Vec::new();
+    s.place(0, &mut classes)
+}
+
+impl Search<'_> {
+    fn tick(&mut self) -> bool {
+        if self.budget == 0 {
+            return false;
+        }
+        self.budget -= 1;
+        true
+    }
+
+    /// Places need `i` into an existing class or a new one.
+    fn place(&mut self, i: usize, classes: &mut Vec<Class>) -> Verdict {
+        if !self.tick() {
+            return Verdict::Budget;
+        }
+        if i == self.needs.len() {
+            return self.choose(0, 0, classes);
+        }
+        let need = &self.needs[i];
+        let caps: Vec<bool> = self
+            .caps
+            .iter()
+            .map(|c| (self.applies)(need.prop, c.prop))
+            .collect();
+        let mut budget_hit = false;
+        for k in 0..=classes.len() {
+            let (range, saved) = if k < classes.len() {
+                let c = &classes[k];
+                if need.group.is_some_and(|g| c.groups.contains(&g)) {
+                    continue;
+                }
+                let r = c.range.intersect(&need.range);
+                if r.is_empty() {
+                    continue;
+                }
+                (r, Some((c.range.clone(), c.caps.clone())))
+            } else {
+                (need.range.clone(), None)
+            };
+            if k < classes.len() {
+                let c = &mut classes[k];
+                c.range = range;
+                for (a, &b) in c.caps.iter_mut().zip(&caps) {
+                    *a |= b;
+                }
+                c.groups.extend(need.group);
+            } else {
+                classes.push(Class {
+                    range,
+                    groups: need.group.into_iter().collect(),
+                    caps: caps.clone(),
+                });
+            }
+            let v = if self.forced_over(classes) {
+                Verdict::Unsat
+            } else {
+                self.place(i + 1, classes)
+            };
+            match saved {
+                Some((r, c)) => {
+                    let cl = &mut classes[k];
+                    cl.range = r;
+                    cl.caps = c;
+                    if need.group.is_some() {
+                        cl.groups.pop();
+                    }
+                }
+                None => {
+                    classes.pop();
+                }
+            }
+            match v {
+                Verdict::Sat => return Verdict::Sat,
+                Verdict::Budget => budget_hit = true,
+                Verdict::Unsat => {}
+            }
+        }
+        if budget_hit {
+            Verdict::Budget
+        } else {
+            Verdict::Unsat
+        }
+    }
+
+    /// Whether some cap already counts more classes that lie wholly inside its range than it
+    /// allows (merging more needs never lowers that number, so the branch is dead).
+    fn forced_over(&self, classes: &[Class]) -> bool {
+        self.caps.iter().enumerate().any(|(j, cap)| {
+            let forced = classes
+                .iter()
+                .filter(|c| c.caps[j] && c.range.intersect(&cap.range.complement()).is_empty())
+                .count();
+            forced > cap.max as usize
+        })
+    }
+
+    /// Decides, for class `k` and cap `j` onwards, whether the class's value lies in the
+    /// cap's range, then checks the counts and distinctness.
+    fn choose(&mut self, k: usize, j: usize, classes: &mut Vec<Class>) -> Verdict {
+        if !self.tick() {
+            return Verdict::Budget;
+        }
+        if k == classes.len() {
+            return self.final_check(classes);
+        }
+        if j == self.caps.len() {
+            return self.choose(k + 1, 0, classes);
+        }
+        if !classes[k].caps[j] {
+            return self.choose(k, j + 1, classes);
+        }
+        let cap = &self.caps[j].range;
+        let inside = classes[k].range.intersect(cap);
+        let outside = classes[k].range.intersect(&cap.complement());
+        let mut budget_hit = false;
+        // Outside first: it counts against no cap.
+        for part in [outside, inside] {
+            if part.is_empty() {
+                continue;
+            }
+            let saved = std::mem::replace(&mut classes[k].range, part);
+            let v = self.choose(k, j + 1, classes);
+            classes[k].range = saved;
+            match v {
+                Verdict::Sat => return Verdict::Sat,
+                Verdict::Budget => budget_hit = true,
+                Verdict::Unsat => {}
+            }
+        }
+        if budget_hit {
+            Verdict::Budget
+        } else {
+            Verdict::Unsat
+        }
+    }
+
+    fn final_check(&mut self, classes: &[Class]) -> Verdict {
+        // Every class now lies wholly inside or outside each cap it is subject to.
+        for (j, cap) in self.caps.iter().enumerate() {
+            let n = classes
+                .iter()
+                .filter(|c| c.caps[j] && !c.range.intersect(&cap.range).is_empty())
+                .count();
+            if n > cap.max as usize {
+                return Verdict::Unsat;
+            }
+        }
+        // Distinct literals: a class with more candidates than there are classes can always
+        // avoid the others; the rest must satisfy Hall's condition.
+        let n = classes.len() as u64;
+        let small: Vec<&DataRange> = classes
+            .iter()
+            .filter(|c| c.range.count(n).is_some())
+            .map(|c| &c.range)
+            .collect();
+        if small.len() > 16 {
+            return Verdict::Budget;
+        }
+        for mask in 1u32..(1 << small.len()) {
+            if !self.tick() {
+                return Verdict::Budget;
+            }
+            let mut union = DataRange::empty();
+            for (i, r) in small.iter().enumerate() {
+                if mask & (1 << i) != 0 {
+                    union = union.union(r);
+                }
+            }
+            let need = u64::from(mask.count_ones());
+            if union.count(need).is_some_and(|c| c < need) {
+                return Verdict::Unsat;
+            }
+        }
+        Verdict::Sat
+    }
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+    use crate::kb::datatype::{literal, named, restrict};
+
+    const XSD: &str = "http://www.w3.org/2001/XMLSchema#";
+
+    fn p(i: u32) -> DataPropId {
+        DataPropId(i)
+    }
+
+    fn need(prop: u32, r: &DataRange, group: Option<u32>) -> Need {
+        Need {
+            prop: p(prop),
+            range: r.clone(),
+            group,
+        }
+    }
+
+    fn same(a: DataPropId, b: DataPropId) -> bool {
+        a == b
+    }
+
+    fn int_range(lo: &str, hi: &str) -> DataRange {
+        let f = |n: &str, v: &str| {
+            (
+                format!("{XSD}{n}"),
+                v.to_string(),
+                Some(format!("{XSD}integer")),
+                None,
+            )
+        };
+        restrict(
+            &format!("{XSD}integer"),
+            &[f("minInclusive", lo), f("maxInclusive", hi)],
+        )
+        .unwrap()
+    }
+
+    #[test]
+    fn at_least_needs_enough_values() {
+        // ≥3 p.integer[1..2] has no model (two integers only); ≥2 p.integer[1..2] has one.
+        let r = int_range("1", "2");
+        let three: Vec<Need> = (0..3).map(|_| need(0, &r, Some(0))).collect();
+        assert_eq!(check(&three, &[], &same, 10_000), Verdict::Unsat);
+        assert_eq!(check(&three[..2], &[], &same, 10_000), Verdict::Sat);
+        // ≥2 p.boolean holds; ≥3 p.boolean does not.
+        let b = named(&format!("{XSD}boolean")).unwrap();
+        let bs: Vec<Need> = (0..3).map(|_| need(0, &b, Some(0))).collect();
+        assert_eq!(check(&bs, &[], &same, 10_000), Verdict::Unsat);
+        assert_eq!(check(&bs[..2], &[], &same, 10_000), Verdict::Sat);
+    }
+
+    #[test]
+    fn at_most_forces_merges() {
+        // ∃p.{1} ⊓ ∃p.integer[1..5] ⊓ ≤1 p: both values must be 1 (merge): satisfiable.
+        let one = literal("1", Some(&format!("{XSD}integer")), None).unwrap();
+        let needs = [need(0, &one, None), need(0, &int_range("1", "5"), None)];
+        let cap = |m, r: &DataRange| Cap {
+            prop: p(0),
+            range: r.clone(),
+            max: m,
+        };
+        let all = DataRange::everything();
+        assert_eq!(check(&needs, &[cap(1, &all)], &same, 10_000), Verdict::Sat);
+        // With ∃p.integer[2..5] instead, ≤1 p cannot hold.
+        let needs2 = [need(0, &one, None), need(0, &int_range("2", "5"), None)];
+        assert_eq!(
+            check(&needs2, &[cap(1, &all)], &same, 10_000),
+            Verdict::Unsat
+        );
+        // ≤0 p.integer[3..9] with ∃p.integer[2..5]: the value can be 2.
+        let c = cap(0, &int_range("3", "9"));
+        assert_eq!(
+            check(&needs2[1..], std::slice::from_ref(&c), &same, 10_000),
+            Verdict::Sat
+        );
+        // ≥2 p.integer[2..5] with ≤1 p.integer[3..9]: 2 and one of 3..5: fine; with
+        // ≥2 p.integer[3..5]: both in [3..9]: no.
+        let two: Vec<Need> = (0..2)
+            .map(|_| need(0, &int_range("3", "5"), Some(0)))
+            .collect();
+        let c1 = cap(1, &int_range("3", "9"));
+        assert_eq!(check(&two, &[c1], &same, 10_000), Verdict::Unsat);
+    }
+
+    #[test]
+    fn distinct_strings_by_hall() {
+        // Two distinct values in {"a"} ∪ {"b"} exist; three do not.
+        let ab = literal("a", None, None)
+            .unwrap()
+            .union(&literal("b", None, None).unwrap());
+        let needs: Vec<Need> = (0..3).map(|_| need(0, &ab, Some(0))).collect();
+        assert_eq!(check(&needs, &[], &same, 10_000), Verdict::Unsat);
+        assert_eq!(check(&needs[..2], &[], &same, 10_000), Verdict::Sat);
+    }
+}

@@ -7,7 +7,7 @@ use crate::explain::case::{ObservationSource, build_problem};
 use crate::explain::why::{Items, Target, all_entailed, targets_of};
 use crate::explain::why::{WhyReport, why_report};
 use crate::explain::{ExplainOptions, explain};
-use crate::kb::load::{self, document::DocumentEdit};
+use crate::kb::load;
 use crate::kb::{Axiom, ClassId, Concept, ConceptId, KbError, KnowledgeBase, RoleId};
 use crate::reasoner::{Answer, Classification, Reasoner, classify, realise};
 use crate::render::text::{classification_text, why_text};
@@ -140,9 +140,9 @@ pub const COMMANDS: &[CommandHelp] = &[
     },
     CommandHelp {
         name: "save",
-        usage: "save [FILE] [--yes]",
-        summary: "Write the session's KB (files and edits, merged) in functional syntax, atomically; over an existing or loaded file only after confirmation, keeping FILE.bak.",
-        example: "save edited.ofn",
+        usage: "save [--into DOCUMENT] [--yes] | save FILE [--yes]",
+        summary: "Alone: write each edit into the loaded document it belongs to (the one declaring its subject, or DOCUMENT), keeping each document's syntax, comments and prefixes, after confirmation, with FILE.bak. With FILE: everything merged into one functional-syntax file.",
+        example: "save --into abdomen.ofn",
     },
     CommandHelp {
         name: "quit",
@@ -177,15 +177,15 @@ pub fn help_text(topic: Option<&str>) -> Result<String, String> {
 }
 
 /// A parsed command line: the command word and its argument with the argument's offset.
-struct Line<'a> {
-    full: &'a str,
-    word: &'a str,
-    arg: &'a str,
-    off: usize,
+pub(super) struct Line<'a> {
+    pub(super) full: &'a str,
+    pub(super) word: &'a str,
+    pub(super) arg: &'a str,
+    pub(super) off: usize,
 }
 
 impl Line<'_> {
-    fn err(&self, msg: impl Into<String>, at: usize) -> ShellError {
+    pub(super) fn err(&self, msg: impl Into<String>, at: usize) -> ShellError {
         ShellError::at(msg, self.full, at)
     }
 }
@@ -239,7 +239,7 @@ pub fn execute(s: &mut Session, line: &str) -> Result<String, ShellError> {
         "unsat" => unsat(s),
         "import" => import(s, &l),
         "check" => check_cmd(s, &l),
-        "save" => save(s, &l),
+        "save" => super::save::save(s, &l),
         "quit" | "exit" => {
             s.quit = true;
             Ok(if s.unsaved() {
@@ -333,7 +333,7 @@ type Options = Vec<(String, String, usize)>;
 
 /// Splits `--name value` options (after the positional text) from the argument.
 /// `flags` take no value. Returns the positional text and the options with offsets.
-fn options<'a>(
+pub(super) fn options<'a>(
     l: &Line<'a>,
     known: &[&str],
     flags: &[&str],
@@ -1674,150 +1674,4 @@ fn import(s: &mut Session, l: &Line) -> Result<String, ShellError> {
             *mat,
         )),
     }
-}
-
-fn save(s: &mut Session, l: &Line) -> Result<String, ShellError> {
-    let (positional, opts) = options(l, &[], &["yes"])?;
-    let yes = opts.iter().any(|(n, _, _)| n == "yes");
-    let target = if positional.is_empty() {
-        match s.documents.as_slice() {
-            [d] => d.path.clone(),
-            [] => return Err(l.err("nothing loaded; give a file name: save FILE", l.off)),
-            _ => {
-                return Err(l.err(
-                    "several documents are loaded; `save FILE` writes them merged into a new file",
-                    l.off,
-                ));
-            }
-        }
-    } else {
-        PathBuf::from(positional.trim_matches('"'))
-    };
-    let loaded = s.documents.iter().any(|d| same_file(&d.path, &target));
-    if loaded && s.documents.len() > 1 {
-        return Err(l.err(
-            format!(
-                "{} is one of several loaded documents; the save merges them all, so give a new file",
-                target.display()
-            ),
-            l.off,
-        ));
-    }
-    if (loaded || target.exists()) && !yes {
-        let question = format!("overwrite {} (a backup is kept)? [y/N] ", target.display());
-        match s.confirm.as_mut() {
-            Some(ask) => {
-                if !ask(&question) {
-                    return Ok("not saved\n".into());
-                }
-            }
-            None => {
-                return Err(l.err(
-                    format!(
-                        "{} exists; confirm with `save {} --yes`",
-                        target.display(),
-                        target.display()
-                    ),
-                    l.off,
-                ));
-            }
-        }
-    }
-    let docs: Vec<(String, String)> = s
-        .documents
-        .iter()
-        .map(|d| (d.path.display().to_string(), d.text.clone()))
-        .collect();
-    let edits: Vec<DocumentEdit> = s
-        .edits
-        .iter()
-        .map(|e| match e {
-            Edit::Add { functional, .. } => DocumentEdit::Add(functional),
-            Edit::Retract { text, .. } => DocumentEdit::Retract(text),
-            Edit::Facts { functional, .. } => DocumentEdit::Add(functional),
-        })
-        .collect();
-    let text = load::document::write_merged(&docs, &edits, &s.prefixes)
-        .map_err(|e| ShellError::new(format!("not saved: {e}; your edits are kept")))?;
-    let mut backup = None;
-    if target.exists() {
-        let old = std::fs::read(&target).map_err(|e| {
-            ShellError::new(format!(
-                "not saved: cannot read {} to back it up: {e}; your edits are kept",
-                target.display()
-            ))
-        })?;
-        let mut bak = target.clone().into_os_string();
-        bak.push(".bak");
-        let bak = PathBuf::from(bak);
-        crate::files::write_atomic(&bak, &old, &[]).map_err(|e| {
-            ShellError::new(format!(
-                "not saved: backup failed: {e}; your edits are kept"
-            ))
-        })?;
-        backup = Some(bak);
-    }
-    crate::files::write_atomic(&target, text.as_bytes(), &[])
-        .map_err(|e| ShellError::new(format!("not saved: {e}; your edits are kept")))?;
-    // Round trip: the saved file must load back with the same axioms and annotations.
-    let check = load::load(std::slice::from_ref(&target), &s.load)
-        .map_err(|e| ShellError::new(format!("saved, but the file does not load back: {e}")))?;
-    let got = Session::axiom_set(&check);
-    let want = Session::axiom_set(&s.kb);
-    let missing: Vec<&String> = want.difference(&got).collect();
-    let mut out = String::new();
-    let n_axioms = check.sources.len();
-    if !missing.is_empty() {
-        // Texts written by us rather than by the parser (facts) are compared in the
-        // parser's own form.
-        let mut probe = KnowledgeBase::new();
-        let texts: String = missing
-            .iter()
-            .filter(|t| !t.starts_with("AnnotationAssertion("))
-            .map(|t| format!("{t}\n"))
-            .collect();
-        let canon: std::collections::BTreeSet<String> =
-            load::load_axioms_text(&mut probe, "check", &texts)
-                .map(|r| {
-                    r.map(|i| probe.sources[probe.axioms[i].source].text.clone())
-                        .collect()
-                })
-                .unwrap_or_default();
-        let still: Vec<&String> = canon.iter().filter(|t| !got.contains(*t)).collect();
-        let ann_missing = missing
-            .iter()
-            .filter(|t| t.starts_with("AnnotationAssertion("))
-            .count();
-        if !still.is_empty() || ann_missing > 0 {
-            let _ = writeln!(
-                out,
-                "warning: round trip: {} axiom(s) and {ann_missing} annotation(s) differ after loading the saved file, first: {}",
-                still.len(),
-                still.first().map(|t| t.as_str()).unwrap_or("")
-            );
-        }
-    }
-    let _ = writeln!(
-        out,
-        "saved {} ({n_axioms} axioms, {} edits); it loads back with the same axioms{}",
-        target.display(),
-        s.edits.len(),
-        backup
-            .map(|b| format!("; previous version kept as {}", b.display()))
-            .unwrap_or_default()
-    );
-    if loaded {
-        // The file now holds the edits: it becomes the base, and the edits are spent.
-        s.edits.clear();
-        s.undone.clear();
-        let files = vec![target.clone()];
-        s.set_files(files)?;
-        let _ = writeln!(
-            out,
-            "the edits are now part of {}; undo history cleared",
-            target.display()
-        );
-    }
-    s.mark_saved();
-    Ok(out)
 }

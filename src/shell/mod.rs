@@ -9,6 +9,7 @@
 
 mod commands;
 pub mod names;
+mod save;
 pub mod syntax;
 
 pub use commands::{COMMANDS, help_text};

@@ -99,12 +99,23 @@ pub fn write_document(
     to: Syntax,
     prefixes: &[(String, String)],
 ) -> Result<String, KbError> {
-    use horned_owl::ontology::component_mapped::ComponentMappedOntology;
     let parsed = parse_bytes_strict(name.to_string(), text.as_bytes().to_vec())?;
+    write_components(name, parsed.components, to, prefixes)
+}
+
+/// Writes components as one document in `to` (`name` for messages), declaring `prefixes`
+/// (name, IRI) where `to` has them.
+pub(super) fn write_components(
+    name: &str,
+    components: Vec<AnnotatedComponent<ArcStr>>,
+    to: Syntax,
+    prefixes: &[(String, String)],
+) -> Result<String, KbError> {
+    use horned_owl::ontology::component_mapped::ComponentMappedOntology;
     let components = if to.is_rdf() {
-        pairwise_disjoint(parsed.components)
+        pairwise_disjoint(components)
     } else {
-        parsed.components
+        components
     };
     let ont: ComponentMappedOntology<ArcStr, horned_owl::model::ArcAnnotatedComponent> =
         components.into_iter().collect();

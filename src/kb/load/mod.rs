@@ -8,6 +8,7 @@ mod entities;
 mod imports;
 mod parse;
 mod rdf_lists;
+pub mod save;
 pub mod syntax;
 
 use super::owl::{Converter, OWL, XSD};

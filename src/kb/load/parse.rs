@@ -130,7 +130,7 @@ fn syntax_of(file: &str, text: &str) -> Result<Syntax, KbError> {
 }
 
 /// Reads one document's bytes as far as they can be read alone (on the parser thread).
-fn open_bytes(file: String, bytes: Vec<u8>) -> Result<Opened, KbError> {
+pub(super) fn open_bytes(file: String, bytes: Vec<u8>) -> Result<Opened, KbError> {
     reading(&file);
     if bytes.iter().all(|b| b.is_ascii_whitespace()) {
         return Err(KbError::Syntax {

@@ -513,7 +513,17 @@ fn evaluate(
             Expect::Satisfiable(items) | Expect::Unsatisfiable(items) => {
                 let mut v = Vec::new();
                 for it in items {
-                    let k = expand_name(&it.text, &c.prefixes).and_then(|iri| {
+                    // A name the file's prefixes do not expand is read as the shell reads
+                    // it (prefixed with the KB's prefixes, fragment or label).
+                    let mut why_not = String::new();
+                    let iri = expand_name(&it.text, &c.prefixes).or_else(|| {
+                        let ix = crate::kb::names::index_of_loaded(base);
+                        ix.resolve(it.text.trim(), &[crate::kb::names::Kind::Class])
+                            .map_err(|e| why_not = format!(" ({e})"))
+                            .ok()
+                            .map(|(_, iri)| iri)
+                    });
+                    let k = iri.and_then(|iri| {
                         qkb.vocab
                             .find_class(&iri)
                             .filter(|k| k.index() < base.vocab.classes.len())
@@ -521,7 +531,7 @@ fn evaluate(
                     });
                     let Some((k, iri)) = k else {
                         return Err(CheckError(format!(
-                            "{}: expect.{}: {:?} is not a class of the knowledge base; write <IRI> or prefix:Name with a prefix of the file's [prefixes]",
+                            "{}: expect.{}: {:?} is not a class of the knowledge base{why_not}; write <IRI>, prefix:Name with a prefix of the file's [prefixes], or a name the KB knows",
                             at(c, it.line),
                             e.key,
                             it.text

@@ -52,7 +52,17 @@ pub fn run(args: WhyArgs) -> i32 {
     };
     let n_ax = kb.axioms.len();
     let mut targets: Vec<(String, Vec<Target>)> = Vec::new();
-    if let Some(text) = &args.entailment {
+    // The shell's look-up: prefixed names, fragments and labels, as in `wherefore shell`.
+    let index = crate::kb::names::index_of_loaded(&kb);
+    if let Some(given) = &args.entailment {
+        let text = match entailment_text(&index, given) {
+            Ok(t) => t,
+            Err(e) => {
+                eprintln!("error: --entailment: {e}");
+                return super::EXIT_BAD_INPUT;
+            }
+        };
+        let text = &text;
         let range = match load::load_axioms_text(&mut kb, "--entailment", text) {
             Ok(r) => r,
             Err(e) => {
@@ -61,14 +71,21 @@ pub fn run(args: WhyArgs) -> i32 {
             }
         };
         match targets_of(&kb, range) {
-            Ok(ts) => targets.push((text.clone(), ts)),
+            Ok(ts) => targets.push((given.clone(), ts)),
             Err(e) => {
                 eprintln!("error: --entailment: {e}");
                 return super::EXIT_BAD_INPUT;
             }
         }
-    } else if let Some(iri) = &args.unsat {
-        let iri = iri.trim_start_matches('<').trim_end_matches('>');
+    } else if let Some(name) = &args.unsat {
+        let iri = match resolve_class(&index, name) {
+            Ok(iri) => iri,
+            Err(e) => {
+                eprintln!("error: --unsat: {e}");
+                return super::EXIT_BAD_INPUT;
+            }
+        };
+        let iri = iri.as_str();
         let Some(c) = kb.vocab.find_class(iri) else {
             eprintln!("error: --unsat: unknown class <{iri}>; it does not occur in the KB");
             return super::EXIT_BAD_INPUT;
@@ -161,4 +178,36 @@ pub fn run(args: WhyArgs) -> i32 {
         return super::EXIT_LIMIT;
     }
     super::EXIT_OK
+}
+
+/// A class named as in the shell: a full IRI (bare or in angle brackets), a prefixed name,
+/// an IRI fragment or a label.
+fn resolve_class(index: &crate::kb::names::EntityIndex, name: &str) -> Result<String, String> {
+    let name = name.trim();
+    if (name.contains("://") || name.starts_with("urn:")) && !name.starts_with('<') {
+        return Ok(name.to_string());
+    }
+    index
+        .resolve(name, &[crate::kb::names::Kind::Class])
+        .map(|(_, iri)| iri)
+}
+
+/// The entailment in functional syntax: given so (the files' prefixes are declared before
+/// it), or in the shell's Manchester syntax with its short names.
+fn entailment_text(index: &crate::kb::names::EntityIndex, given: &str) -> Result<String, String> {
+    let prefixes: String = index
+        .prefixes
+        .iter()
+        .map(|(p, iri)| format!("Prefix({p}:=<{iri}>)\n"))
+        .collect();
+    if crate::shell::syntax::functional_keyword(given).is_some() {
+        return Ok(format!("{prefixes}{given}"));
+    }
+    match crate::shell::syntax::parse_manchester(given, index, false) {
+        Ok(crate::shell::syntax::Statement::Axiom(a)) => Ok(format!("{prefixes}{a}")),
+        Ok(crate::shell::syntax::Statement::Class(_)) => Err(
+            "expected an axiom (A SubClassOf B, a Type C, a p b, or functional syntax), not a class expression".into(),
+        ),
+        Err(e) => Err(format!("{} (at character {})", e.message, e.offset + 1)),
+    }
 }

@@ -192,13 +192,34 @@ pub fn read_abducibles(
     let file = path.display().to_string();
     let text = std::fs::read_to_string(path).map_err(|e| format!("{file}: cannot read: {e}"))?;
     let mut out = Vec::new();
+    // Short names (prefixed, fragment, label) are read as the shell reads them; the index
+    // is built only when a line needs it.
+    let mut index: Option<crate::kb::names::EntityIndex> = None;
     for (n, line) in text.lines().enumerate() {
         let line = line.trim();
         if line.is_empty() || line.starts_with('#') {
             continue;
         }
-        let (kind, iri) = line.split_once(char::is_whitespace).unwrap_or((line, ""));
-        let iri = iri.trim().trim_start_matches('<').trim_end_matches('>');
+        let (kind, name) = line.split_once(char::is_whitespace).unwrap_or((line, ""));
+        let name = name.trim();
+        let full = name.starts_with('<') || name.contains("://") || name.starts_with("urn:");
+        let resolved;
+        let iri = if full || name.is_empty() {
+            name.trim_start_matches('<').trim_end_matches('>')
+        } else {
+            use crate::kb::names::Kind;
+            let want = if kind == "property" {
+                Kind::ObjectProperty
+            } else {
+                Kind::Class
+            };
+            let ix = index.get_or_insert_with(|| crate::kb::names::index_of_loaded(kb));
+            resolved = ix
+                .resolve(name, &[want])
+                .map_err(|e| format!("{file}:{}: {e}", n + 1))?
+                .1;
+            resolved.as_str()
+        };
         if iri.is_empty() {
             return Err(format!(
                 "{file}:{}: expected `class IRI`, `not-class IRI` or `property IRI`",

@@ -6,6 +6,7 @@ pub mod datarange;
 pub mod datatype;
 pub mod error;
 pub mod load;
+pub mod names;
 pub mod owl;
 
 pub use concept::{Concept, ConceptId, ConceptStore};

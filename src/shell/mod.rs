@@ -8,10 +8,12 @@
 //! reload re-reads the files and applies the edits again.
 
 mod commands;
-pub mod names;
 mod save;
 pub mod syntax;
 
+/// Entity look-up by short name; it lives in `kb` so that the command line uses the same
+/// one.
+pub use crate::kb::names;
 pub use commands::{COMMANDS, help_text};
 
 use crate::facts::Facts;
@@ -167,20 +169,7 @@ pub struct Session {
     quit: bool,
 }
 
-/// The standard prefixes known in every session (OWL 2 Structural Specification §2.4) and
-/// our annotation vocabulary.
-fn standard_prefixes() -> Vec<(String, String)> {
-    [
-        ("owl", "http://www.w3.org/2002/07/owl#"),
-        ("rdf", "http://www.w3.org/1999/02/22-rdf-syntax-ns#"),
-        ("rdfs", "http://www.w3.org/2000/01/rdf-schema#"),
-        ("xsd", "http://www.w3.org/2001/XMLSchema#"),
-        ("wf", crate::explain::WF),
-    ]
-    .iter()
-    .map(|(a, b)| (a.to_string(), b.to_string()))
-    .collect()
-}
+use names::standard_prefixes;
 
 impl Default for Session {
     fn default() -> Self {
@@ -297,15 +286,9 @@ impl Session {
     fn set_files(&mut self, files: Vec<PathBuf>) -> Result<Vec<String>, ShellError> {
         let base = load::load(&files, &self.load).map_err(|e| ShellError::new(e.to_string()))?;
         let mut documents = Vec::new();
-        let mut prefixes = standard_prefixes();
         for f in &base.files {
             let path = PathBuf::from(f);
             let text = std::fs::read_to_string(&path).unwrap_or_default();
-            for (p, iri) in names::scan_prefixes(&text) {
-                if !prefixes.iter().any(|(q, _)| *q == p) {
-                    prefixes.push((p, iri));
-                }
-            }
             let modified = std::fs::metadata(&path).and_then(|m| m.modified()).ok();
             documents.push(Document {
                 path,
@@ -313,6 +296,7 @@ impl Session {
                 modified,
             });
         }
+        let prefixes = names::prefixes_of(documents.iter().map(|d| d.text.as_str()));
         let old = (
             std::mem::replace(&mut self.base, base),
             std::mem::replace(&mut self.documents, documents),

@@ -1,5 +1,8 @@
-//! Entity look-up for the shell: by full IRI, by prefixed name, by IRI fragment or by label.
-//! A name that fits several entities is an error that lists the candidates.
+//! Entity look-up by short name, shared by the shell and the command line: by full IRI, by
+//! prefixed name, by IRI fragment or by label. A name that fits several entities is an
+//! error that lists the candidates; an unknown prefix is named as such with the known ones;
+//! an unknown name gets "did you mean" suggestions (edit distance over fragments and
+//! labels).
 
 use crate::kb::{KnowledgeBase, OWL_NOTHING, OWL_THING};
 use std::collections::BTreeMap;
@@ -212,6 +215,18 @@ impl EntityIndex {
         if let Some(iri) = self.expand(name) {
             return Ok(pick(iri));
         }
+        if let Some((p, local)) = name.split_once(':')
+            && !local.starts_with("//")
+            && !p.contains(char::is_whitespace)
+        {
+            let mut known: Vec<String> =
+                self.prefixes.iter().map(|(q, _)| format!("{q}:")).collect();
+            known.sort();
+            return Err(format!(
+                "unknown prefix `{p}:` in `{name}`; known prefixes: {}. Declare it in an ontology file, or write the full IRI in <...>",
+                known.join(" ")
+            ));
+        }
         let mut cands: Vec<usize> = Vec::new();
         for i in self.by_fragment.get(name).into_iter().flatten() {
             if want(&self.entities[*i].kind) {
@@ -238,9 +253,28 @@ impl EntityIndex {
             .collect::<Vec<_>>()
             .join(" or ");
         match cands.len() {
-            0 => Err(format!(
-                "unknown {wanted} `{name}`; check the spelling, or write a prefixed name or a full IRI in <...>"
-            )),
+            0 => {
+                let near = self.near(name, kinds);
+                Err(format!(
+                    "unknown {wanted} `{name}`; {}",
+                    if near.is_empty() {
+                        "check the spelling, or write a prefixed name or a full IRI in <...>"
+                            .to_string()
+                    } else {
+                        format!(
+                            "did you mean {}?",
+                            near.iter()
+                                .map(|n| if n.starts_with('\'') {
+                                    n.clone()
+                                } else {
+                                    format!("`{n}`")
+                                })
+                                .collect::<Vec<_>>()
+                                .join(" or ")
+                        )
+                    }
+                ))
+            }
             1 => {
                 let e = &self.entities[cands[0]];
                 Ok((e.kind, e.iri.clone()))
@@ -257,6 +291,37 @@ impl EntityIndex {
                     .join(", ")
             )),
         }
+    }
+
+    /// Names close to `name` among the wanted kinds: IRI fragments and labels within an
+    /// edit distance of a third of the name's length (at least 1, case ignored), closest
+    /// first, at most three; a label is written quoted when it has spaces.
+    pub fn near(&self, name: &str, kinds: &[Kind]) -> Vec<String> {
+        let wanted = name.to_lowercase();
+        let limit = (wanted.chars().count() / 3).max(1);
+        let mut found: Vec<(usize, String)> = Vec::new();
+        for e in self.entities.iter().filter(|e| kinds.contains(&e.kind)) {
+            let shown = self.short(&e.iri);
+            let mut best = distance(&wanted, &e.fragment.to_lowercase());
+            let mut written = shown.clone();
+            for l in &e.labels {
+                let d = distance(&wanted, &l.to_lowercase());
+                if d < best {
+                    best = d;
+                    written = if l.contains(char::is_whitespace) {
+                        format!("'{l}'")
+                    } else {
+                        l.clone()
+                    };
+                }
+            }
+            if best <= limit {
+                found.push((best, written));
+            }
+        }
+        found.sort();
+        found.dedup_by(|a, b| a.1 == b.1);
+        found.into_iter().take(3).map(|(_, n)| n).collect()
     }
 
     /// Words for completion: every fragment, and every label (quoted when it has spaces).
@@ -278,25 +343,116 @@ impl EntityIndex {
     }
 }
 
-/// The `Prefix(name:=<IRI>)` declarations of an OWL 2 functional-syntax text.
-pub fn scan_prefixes(text: &str) -> Vec<(String, String)> {
-    let mut out = Vec::new();
-    let mut rest = text;
-    while let Some(i) = rest.find("Prefix(") {
-        rest = &rest[i + 7..];
-        let Some(eq) = rest.find(":=") else { break };
-        let name = rest[..eq].trim();
-        let after = &rest[eq + 2..];
-        let (Some(lt), Some(gt)) = (after.find('<'), after.find('>')) else {
-            break;
+/// The Levenshtein distance between two strings, counted in characters (Levenshtein
+/// 1966; the two-row dynamic programme).
+pub fn distance(a: &str, b: &str) -> usize {
+    let a: Vec<char> = a.chars().collect();
+    let b: Vec<char> = b.chars().collect();
+    let mut prev: Vec<usize> = (0..=b.len()).collect();
+    let mut cur = vec![0; b.len() + 1];
+    for (i, ca) in a.iter().enumerate() {
+        cur[0] = i + 1;
+        for (j, cb) in b.iter().enumerate() {
+            let swap = prev[j] + usize::from(ca != cb);
+            cur[j + 1] = swap.min(prev[j + 1] + 1).min(cur[j] + 1);
+        }
+        std::mem::swap(&mut prev, &mut cur);
+    }
+    prev[b.len()]
+}
+
+/// The standard prefixes known everywhere (OWL 2 Structural Specification §2.4) and our
+/// annotation vocabulary's.
+pub fn standard_prefixes() -> Vec<(String, String)> {
+    [
+        ("owl", "http://www.w3.org/2002/07/owl#"),
+        ("rdf", "http://www.w3.org/1999/02/22-rdf-syntax-ns#"),
+        ("rdfs", "http://www.w3.org/2000/01/rdf-schema#"),
+        ("xsd", "http://www.w3.org/2001/XMLSchema#"),
+        ("wf", "https://wherefore.example.org/ns/core#"),
+    ]
+    .iter()
+    .map(|(a, b)| (a.to_string(), b.to_string()))
+    .collect()
+}
+
+/// The standard prefixes and those the documents declare (in any syntax we read), the
+/// first declaration of a name winning; `texts` are the documents' contents in load order.
+pub fn prefixes_of<'a>(texts: impl IntoIterator<Item = &'a str>) -> Vec<(String, String)> {
+    let mut prefixes = standard_prefixes();
+    for text in texts {
+        let crate::kb::load::syntax::Detected::Known(syntax) =
+            crate::kb::load::syntax::detect(text)
+        else {
+            continue;
         };
-        if lt < gt
-            && name
-                .chars()
-                .all(|c| c.is_alphanumeric() || c == '_' || c == '-')
-        {
-            out.push((name.to_string(), after[lt + 1..gt].to_string()));
+        for (p, iri) in crate::kb::load::save::document_prefixes(text, syntax) {
+            if !prefixes.iter().any(|(q, _)| *q == p) {
+                prefixes.push((p, iri));
+            }
         }
     }
-    out
+    prefixes
+}
+
+/// The index of a loaded knowledge base, with the prefixes its files declare: what the
+/// command line uses to read the same short names as the shell.
+pub fn index_of_loaded(kb: &KnowledgeBase) -> EntityIndex {
+    let texts: Vec<String> = kb
+        .files
+        .iter()
+        .filter_map(|f| std::fs::read_to_string(f).ok())
+        .collect();
+    EntityIndex::new(kb, prefixes_of(texts.iter().map(|t| t.as_str())))
+}
+
+#[cfg(test)]
+mod tests {
+    use super::*;
+
+    fn index() -> EntityIndex {
+        let mut kb = KnowledgeBase::new();
+        let text = "Prefix(:=<http://x.org/o#>)\nDeclaration(Class(:Kidney))\nDeclaration(Class(:Liver))\nDeclaration(Class(:LeftKidney))\nAnnotationAssertion(rdfs:label :Liver \"hepatic organ\"@en)\nSubClassOf(:LeftKidney :Kidney)\n";
+        crate::kb::load::load_axioms_text(&mut kb, "t", text).unwrap();
+        let mut p = standard_prefixes();
+        p.push((String::new(), "http://x.org/o#".into()));
+        EntityIndex::new(&kb, p)
+    }
+
+    // Hand-derived: kitten → sitting is 3 (the textbook example), and the trivial cases.
+    #[test]
+    fn edit_distance() {
+        assert_eq!(distance("kitten", "sitting"), 3);
+        assert_eq!(distance("", "abc"), 3);
+        assert_eq!(distance("kidney", "kidney"), 0);
+        assert_eq!(distance("kidnee", "kidney"), 1);
+    }
+
+    // Hand-derived: `Kidnee` is one substitution from Kidney and three or more from the
+    // others; a misspelt label is found through the label.
+    #[test]
+    fn unknown_names_get_suggestions() {
+        let ix = index();
+        let e = ix.resolve("Kidnee", &[Kind::Class]).unwrap_err();
+        assert!(e.contains("did you mean `Kidney`?"), "{e}");
+        let e = ix.resolve("hepatic organs", &[Kind::Class]).unwrap_err();
+        assert!(e.contains("did you mean 'hepatic organ'?"), "{e}");
+        let e = ix.resolve("Zzzzzz", &[Kind::Class]).unwrap_err();
+        assert!(e.contains("check the spelling"), "{e}");
+    }
+
+    // An unknown prefix is named as a prefix, with the known ones listed.
+    #[test]
+    fn unknown_prefixes_are_named() {
+        let e = index().resolve("ab:Kidney", &[Kind::Class]).unwrap_err();
+        assert!(e.starts_with("unknown prefix `ab:` in `ab:Kidney`"), "{e}");
+        assert!(
+            e.contains("known prefixes: : owl: rdf: rdfs: wf: xsd:"),
+            "{e}"
+        );
+        assert_eq!(
+            index().resolve(":Kidney", &[Kind::Class]).unwrap().1,
+            "http://x.org/o#Kidney"
+        );
+    }
 }

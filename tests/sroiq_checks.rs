@@ -58,6 +58,8 @@ sroiq! {
     nominal_with_functional_property: "nominal-functional";
     nominal_with_inverse_at_most: "nominal-counting";
     complement_of_enumeration: "nominal-complement";
+    // The OWL 2 Primer's ages: definitions used before they are given, one built from two.
+    datatype_definitions: "datatype-definition";
     top_and_bottom_properties: "top-bottom-properties";
 }
 
@@ -73,5 +75,43 @@ fn sroiq_fixtures_parse_with_horned_owl() {
             n += 1;
         }
     }
-    assert_eq!(n, 12);
+    assert_eq!(n, 13);
+}
+
+/// A cycle among datatype definitions is outside OWL 2 DL (Structural Specification §11.2):
+/// exit 2, with the cycle named; so is a facet on a defined datatype (§7.5).
+#[test]
+fn datatype_definition_refusals_name_the_problem() {
+    let tmp = std::env::temp_dir().join(format!("wherefore-dtdef-{}", std::process::id()));
+    std::fs::create_dir_all(&tmp).unwrap();
+    let head = "Prefix(:=<http://example.org/d#>)\nPrefix(xsd:=<http://www.w3.org/2001/XMLSchema#>)\nOntology(<http://example.org/d>\nDeclaration(Datatype(:a)) Declaration(Datatype(:b))\n";
+    for (name, body, needle) in [
+        (
+            "cycle.ofn",
+            "DatatypeDefinition(:a DataUnionOf(:b xsd:string))\nDatatypeDefinition(:b DataComplementOf(:a))\n",
+            "http://example.org/d#a -> http://example.org/d#b -> http://example.org/d#a",
+        ),
+        (
+            "facet.ofn",
+            "DatatypeDefinition(:a xsd:integer)\nDatatypeDefinition(:b DatatypeRestriction(:a xsd:minInclusive \"1\"^^xsd:integer))\n",
+            "a datatype defined in the ontology",
+        ),
+        (
+            "redefine.ofn",
+            "DatatypeDefinition(xsd:integer xsd:string)\n",
+            "cannot be redefined",
+        ),
+    ] {
+        let f = tmp.join(name);
+        std::fs::write(&f, format!("{head}{body})\n")).unwrap();
+        let out = std::process::Command::new(env!("CARGO_BIN_EXE_wherefore"))
+            .args(["classify", f.to_str().unwrap()])
+            .output()
+            .unwrap();
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert_eq!(out.status.code(), Some(2), "{name}: {err}");
+        assert!(err.contains(needle), "{name}: {err}");
+        assert!(err.contains(name), "{name} names the file: {err}");
+    }
+    std::fs::remove_dir_all(&tmp).ok();
 }

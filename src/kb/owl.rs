@@ -173,6 +173,10 @@ impl Converter<'_> {
                 self.class_concept(&cl.0);
                 Ok(false)
             }
+            // A declaration of a built-in (owl:topObjectProperty, …, as some writers emit) names
+            // no property of the ontology.
+            C::DeclareObjectProperty(p) if p.0.starts_with(OWL) => Ok(false),
+            C::DeclareDataProperty(p) if p.0.starts_with(OWL) => Ok(false),
             C::DeclareObjectProperty(p) => {
                 self.kb.vocab.prop(&p.0);
                 Ok(false)

@@ -832,10 +832,10 @@ impl<'a> Tableau<'a> {
         for &(_, _, d) in &alls {
             all_dep = self.deps.union(all_dep, d);
         }
-        // The range each value must lie in.
-        let eff: Vec<DataRange> = somes
+        // The ranges each value must lie in, as the ids whose intersection is its range.
+        let eff: Vec<Vec<DataRangeId>> = somes
             .iter()
-            .map(|&(dp, r, _)| self.effective_range(dp, r, &alls))
+            .map(|&(dp, r, _)| self.effective_range_ids(dp, r, &alls))
             .collect();
         // Values of properties under a common functional property coincide.
         let n = somes.len();
@@ -859,24 +859,59 @@ impl<'a> Tableau<'a> {
             }
         }
         for g in 0..n {
-            let mut acc: Option<DataRange> = None;
+            let mut ids: Vec<DataRangeId> = Vec::new();
             let mut d = all_dep;
             for i in 0..n {
                 if root(&mut group, i) == g {
-                    acc = Some(match acc {
-                        None => eff[i].clone(),
-                        Some(a) => a.intersect(&eff[i]),
-                    });
+                    ids.extend_from_slice(&eff[i]);
                     d = self.deps.union(d, somes[i].2);
                 }
             }
-            if let Some(a) = acc
-                && a.is_empty()
-            {
+            if !ids.is_empty() && self.empty_intersection(ids) {
                 self.set_clash(d);
                 return;
             }
         }
+    }
+
+    /// The ranges whose intersection a value of `dp` must lie in at a node: `r`, the node's
+    /// ∀ restrictions on `dp`'s super-properties and their range axioms.
+    fn effective_range_ids(
+        &self,
+        dp: DataPropId,
+        r: DataRangeId,
+        alls: &[(DataPropId, DataRangeId, Dep)],
+    ) -> Vec<DataRangeId> {
+        let p = self.prep;
+        let mut ids = vec![r];
+        for &(q, e, _) in alls {
+            if p.data_supers[dp.index()].contains(&q) {
+                ids.push(e);
+            }
+        }
+        for q in &p.data_supers[dp.index()] {
+            ids.extend_from_slice(&p.data_ranges[q.index()]);
+        }
+        ids
+    }
+
+    /// Whether the ranges have no value in common, remembered in the preparation.
+    fn empty_intersection(&self, mut ids: Vec<DataRangeId>) -> bool {
+        ids.sort_unstable();
+        ids.dedup();
+        if let Some(e) = self.prep.empty_ranges.get(&ids) {
+            return e;
+        }
+        let mut acc = self.ranges.get(ids[0]).clone();
+        for &id in &ids[1..] {
+            if acc.is_empty() {
+                break;
+            }
+            acc = acc.intersect(self.ranges.get(id));
+        }
+        let e = acc.is_empty();
+        self.prep.empty_ranges.put(ids, e);
+        e
     }
 
     /// The range a value of `dp` must lie in at a node: `r` cut by the node's ∀ restrictions

@@ -57,6 +57,8 @@ sroiq! {
     key_leaves_anonymous_individuals: "key-anonymous";
     nominal_with_functional_property: "nominal-functional";
     nominal_with_inverse_at_most: "nominal-counting";
+    // An inverse-functional chain overflows a nominal's at-most restriction past blocking.
+    nominal_at_most_past_blocking: "nominal-chain";
     complement_of_enumeration: "nominal-complement";
     // The OWL 2 Primer's ages: definitions used before they are given, one built from two.
     datatype_definitions: "datatype-definition";
@@ -75,7 +77,7 @@ fn sroiq_fixtures_parse_with_horned_owl() {
             n += 1;
         }
     }
-    assert_eq!(n, 13);
+    assert_eq!(n, 14);
 }
 
 /// A cycle among datatype definitions is outside OWL 2 DL (Structural Specification §11.2):

@@ -1,5 +1,6 @@
-//! The tableau reasoner for SHIQ with data ranges over the OWL 2 datatype map: consistency, satisfiability,
-//! subsumption, instance checking, classification and models.
+//! The tableau reasoner for SROIQ (with SHOIQ's nominal nodes and NN-rule) and data ranges
+//! over the OWL 2 datatype map: consistency, satisfiability, subsumption, instance
+//! checking, classification and models.
 //!
 //! Every answer is [`Answer::Yes`], [`Answer::No`] or [`Answer::Unknown`] with the limit that
 //! stopped the search; the reasoner never guesses.
@@ -33,8 +34,9 @@ pub enum Limit {
     /// The user cancelled.
     Cancelled,
     /// A model was found, but a nominal's at-most restriction counts nodes that blocking
-    /// would copy; deciding it needs SHOIQ's NN-rule (Horrocks & Sattler 2007), which this
-    /// tableau lacks, so it does not claim satisfiability.
+    /// would copy and neither SHOIQ's NN-rule nor the ≤o-rule (Horrocks & Sattler 2007)
+    /// settled them; the tableau does not claim satisfiability then. A safety net: with
+    /// those rules in place no run is known to end here.
     NominalCounting,
 }
 
@@ -44,7 +46,7 @@ impl std::fmt::Display for Limit {
             Limit::Time => "time limit reached",
             Limit::Nodes => "node limit of the completion graph reached",
             Limit::Cancelled => "cancelled",
-            Limit::NominalCounting => "a number restriction on an individual counts blocked parts of the model (nominals with number restrictions need SHOIQ's NN-rule, not implemented)",
+            Limit::NominalCounting => "a number restriction on an individual counts blocked parts of the model that the NN-rule did not settle",
         })
     }
 }

@@ -1,5 +1,11 @@
 //! The completion-graph tableau for SHIQ (Horrocks, Sattler & Tobies 1999/2000) with
-//! data ranges and data number restrictions, ABox root nodes and ObjectHasValue fillers.
+//! data ranges and data number restrictions, ABox root nodes and ObjectHasValue fillers,
+//! extended to nominals as in SHOIQ (Horrocks & Sattler, "A Tableau Decision Procedure for
+//! SHOIQ", JAR 2007): root nodes are the nominal nodes (individuals, the query's root and
+//! the nodes the NN-rule makes) and are never blocked; the o-rule merges a node holding
+//! {a} into a's root; on a nominal node, the NN-rule and the ≤o-rule merge blockable
+//! neighbours counted by an at-most restriction into nominal nodes, pruning their
+//! successors, before any generating rule runs.
 //!
 //! One solver state, declared parts: the completion [`Graph`] (copied at branching points,
 //! which is the trail), the branching stack, the dependency table and statistics.
@@ -160,6 +166,9 @@ pub struct Graph {
     /// No node before this one has an ∃/≥ demand left unmet: the generating scan starts
     /// here. Reset to 0 when a merge or prune may have removed a node that met a demand.
     gen_from: NodeId,
+    /// Whether a tree node may have met a root other than its parent (an edge to a nominal,
+    /// a merge into a root): only then can the NN-rule apply, so SHIQ runs skip its test.
+    nominal_edges: bool,
 }
 
 #[derive(Clone, Debug)]
@@ -170,6 +179,14 @@ enum Choice {
     },
     Merge {
         options: Vec<(NodeId, NodeId)>,
+    },
+    /// SHOIQ's NN-rule at the nominal node `node` for ≤`max` `role`.`filler`: alternative i
+    /// guesses that the node has exactly i + 1 such neighbours.
+    Nominals {
+        node: NodeId,
+        role: RoleId,
+        filler: ConceptId,
+        max: u32,
     },
 }
 
@@ -1195,6 +1212,14 @@ impl<'a> Tableau<'a> {
                         }
                     }
                 }
+                if self.g.nominal_edges
+                    && n > 0
+                    && self.g.nodes[x].is_root()
+                    && let Some((w, wd)) = self.blockable_predecessor(x, &nbrs, f)
+                {
+                    self.nominal_at_most(x, n, r, f, (w, wd), dc);
+                    return true;
+                }
                 let with: Vec<(NodeId, Dep)> = nbrs
                     .iter()
                     .filter_map(|&(y, ed)| self.has(y, f).map(|fd| (y, self.deps_union(ed, fd))))
@@ -1306,6 +1331,107 @@ impl<'a> Tableau<'a> {
         false
     }
 
+    /// A blockable r-neighbour w of the nominal node x carrying `f`, with x a successor of
+    /// w (w is not x's child), and the dependency of the edge and of `f` at w: the
+    /// neighbour that SHOIQ's NN-rule and ≤o-rule (Horrocks & Sattler 2007, Fig. 3) are
+    /// about, since unravelling may copy w while x stays one element.
+    fn blockable_predecessor(
+        &mut self,
+        x: NodeId,
+        nbrs: &[(NodeId, Dep)],
+        f: ConceptId,
+    ) -> Option<(NodeId, Dep)> {
+        for &(w, ed) in nbrs {
+            let node = &self.g.nodes[w];
+            if node.is_root() || node.parent == Some(x) {
+                continue;
+            }
+            if let Some(fd) = self.has(w, f) {
+                return Some((w, self.deps.union(ed, fd)));
+            }
+        }
+        None
+    }
+
+    /// The NN-rule and the ≤o-rule of Horrocks & Sattler, "A Tableau Decision Procedure
+    /// for SHOIQ" (JAR 2007, Fig. 3), for ≤n r.f at the nominal node x (dependency `dc`) and
+    /// its blockable predecessor w with f (dependency `wd`).
+    ///
+    /// When x already holds some ≤m r.f (m ≤ n) together with m pairwise distinct nominal
+    /// r-neighbours carrying f, every other such neighbour is one of them in any model, so
+    /// w is merged into one of those nominal nodes (branching over which; merging into a
+    /// nominal node prunes w's blockable successors). Otherwise the NN-rule guesses the
+    /// exact number m of r-neighbours with f (1 ≤ m ≤ n, at least w's element exists) and
+    /// makes them m new nominal nodes: they are never blocked, so unravelling cannot copy
+    /// them past x's restriction.
+    fn nominal_at_most(
+        &mut self,
+        x: NodeId,
+        n: u32,
+        r: RoleId,
+        f: ConceptId,
+        (w, wd): (NodeId, Dep),
+        dc: Dep,
+    ) {
+        let mut noms: Vec<(NodeId, Dep)> = Vec::new();
+        for (z, ed) in self.r_neighbours(x, r) {
+            if self.g.nodes[z].is_root()
+                && let Some(fd) = self.has(z, f)
+            {
+                noms.push((z, self.deps.union(ed, fd)));
+            }
+        }
+        for c in self.g.nodes[x].at_mosts.clone() {
+            let Concept::AtMost(m, r2, f2) = *self.concepts.get(c) else {
+                continue;
+            };
+            if r2 != r || f2 != f || m == 0 || m > n {
+                continue;
+            }
+            let ids: Vec<NodeId> = noms.iter().map(|&(z, _)| z).collect();
+            let Some(clique) = self.find_clique(&ids, m as usize) else {
+                continue;
+            };
+            // The ≤o-rule: merge w into one of the m distinct nominal neighbours.
+            let mut base = self.g.nodes[x].deps[&c];
+            base = self.deps.union(base, wd);
+            for (i, &z) in clique.iter().enumerate() {
+                let zd = noms.iter().find(|e| e.0 == z).map_or(Dep::EMPTY, |e| e.1);
+                base = self.deps.union(base, zd);
+                for &z2 in &clique[..i] {
+                    let d = self.distinct(z, z2).expect("a clique is pairwise distinct");
+                    base = self.deps.union(base, d);
+                }
+            }
+            let mut options = Vec::new();
+            for &z in &clique {
+                match self.distinct(w, z) {
+                    Some(d) => base = self.deps.union(base, d),
+                    None => options.push((w, z)),
+                }
+            }
+            if options.is_empty() {
+                self.set_clash(base);
+            } else {
+                self.stats.branches += 1;
+                self.branch(Choice::Merge { options }, base);
+            }
+            return;
+        }
+        // The NN-rule.
+        let base = self.deps.union(dc, wd);
+        self.stats.branches += 1;
+        self.branch(
+            Choice::Nominals {
+                node: x,
+                role: r,
+                filler: f,
+                max: n,
+            },
+            base,
+        );
+    }
+
     fn deps_union(&mut self, a: Dep, b: Dep) -> Dep {
         self.deps.union(a, b)
     }
@@ -1317,10 +1443,14 @@ impl<'a> Tableau<'a> {
         }
     }
 
-    /// Orders a merge pair (from, into): into a root, else into x's predecessor, else into the
-    /// older node.
+    /// Orders a merge pair (from, into): into a nominal (root) node, so that a blockable
+    /// node never absorbs a nominal one (Horrocks & Sattler 2007, the ≤-rule); between two
+    /// roots into a named one; else into x's predecessor, else into the older node.
     fn merge_order(&self, x: NodeId, y: NodeId, z: NodeId) -> (NodeId, NodeId) {
         let (ny, nz) = (&self.g.nodes[y], &self.g.nodes[z]);
+        if ny.is_root() != nz.is_root() {
+            return if ny.is_root() { (z, y) } else { (y, z) };
+        }
         if !ny.names.is_empty() && nz.names.is_empty() {
             return (z, y);
         }
@@ -1362,6 +1492,7 @@ impl<'a> Tableau<'a> {
         let n = match &choice {
             Choice::Add { options, .. } => options.len(),
             Choice::Merge { options } => options.len(),
+            Choice::Nominals { max, .. } => *max as usize,
         };
         let last = i + 1 == n;
         let dep = if last {
@@ -1393,6 +1524,31 @@ impl<'a> Tableau<'a> {
                         self.merge(y, z, dep);
                     }
                 }
+            }
+            Choice::Nominals {
+                node, role, filler, ..
+            } => self.new_nominals(node, role, filler, i as u32 + 1, dep),
+        }
+    }
+
+    /// The NN-rule's action (Horrocks & Sattler 2007, Fig. 3): ≤m r.f at the nominal node
+    /// x and m new nominal nodes (roots without a name: never blocked, never pruned) as
+    /// pairwise distinct r-neighbours of x with f.
+    fn new_nominals(&mut self, x: NodeId, r: RoleId, f: ConceptId, m: u32, dep: Dep) {
+        let am = self.concepts.at_most(m, r, f);
+        self.add(x, am, dep);
+        let u = self.prep.universal;
+        let mut news = Vec::with_capacity(m as usize);
+        for _ in 0..m {
+            let y = self.new_node(None);
+            self.add_edge(x, y, r, dep);
+            self.add(y, f, dep);
+            self.add(y, u, Dep::EMPTY);
+            news.push(y);
+        }
+        for i in 0..news.len() {
+            for j in i + 1..news.len() {
+                self.g.ineq.push((news[i], news[j], dep));
             }
         }
     }
@@ -1428,6 +1584,9 @@ impl<'a> Tableau<'a> {
     /// Merges node y into z (the ≤-rule's Merge, Horrocks, Sattler & Tobies 2000).
     fn merge(&mut self, y: NodeId, z: NodeId, dep: Dep) {
         self.g.gen_from = 0;
+        if self.g.nodes[z].is_root() {
+            self.g.nominal_edges = true;
+        }
         let label: Vec<(ConceptId, Dep)> = self.g.nodes[y]
             .label
             .iter()
@@ -1587,6 +1746,7 @@ impl<'a> Tableau<'a> {
                         did = true;
                         if let Concept::Nominal(a) = *self.concepts.get(f) {
                             let t = self.ind(a);
+                            self.g.nominal_edges = true;
                             self.add_edge(x, t, r, dc);
                         } else {
                             self.successor(x, r, f, dc);
@@ -1627,8 +1787,13 @@ impl<'a> Tableau<'a> {
         if n <= 1 {
             return cands.len() >= n;
         }
+        self.find_clique(cands, n).is_some()
+    }
+
+    /// `n` pairwise distinct candidates, if there are (backtracking clique search).
+    fn find_clique(&self, cands: &[NodeId], n: usize) -> Option<Vec<NodeId>> {
         if cands.len() < n {
-            return false;
+            return None;
         }
         fn grow(
             t: &Tableau,
@@ -1655,7 +1820,8 @@ impl<'a> Tableau<'a> {
             }
             false
         }
-        grow(self, cands, 0, &mut Vec::new(), n)
+        let mut chosen = Vec::new();
+        grow(self, cands, 0, &mut chosen, n).then_some(chosen)
     }
 
     fn successor(&mut self, x: NodeId, r: RoleId, f: ConceptId, dep: Dep) -> NodeId {
@@ -1808,10 +1974,12 @@ impl<'a> Tableau<'a> {
     }
 
     /// Whether the model read off the finished graph could break a root node's at-most
-    /// restriction. Blocking unravels the graph: each blocked node gets copies of its
-    /// blocker's successors, and a copied node with an edge to a root node (an individual or
-    /// a merged nominal) adds a neighbour there that the ≤-rule never counted. SHOIQ's NN-rule
-    /// (Horrocks & Sattler 2007) prevents this; without it, such a graph proves nothing.
+    /// restriction. Blocking unravels the graph: each blocked node stands for a copy of its
+    /// blocker and of the blocker's successors, and a copied node with an edge to a root
+    /// node (an individual or a nominal) that is not its parent adds a neighbour there that
+    /// the ≤-rule never counted. With nominals in the TBox the NN-rule and the ≤o-rule
+    /// ([`Tableau::nominal_at_most`]) leave no such neighbour in a finished graph, so this
+    /// is a safety net: it answers "limit reached" rather than claim a model it cannot back.
     fn nominal_counting_at_risk(&self) -> bool {
         if self.blockers.is_empty() {
             return false;
@@ -1838,7 +2006,8 @@ impl<'a> Tableau<'a> {
                     continue;
                 };
                 for (w, r, _) in self.neighbours(o) {
-                    if copied[w] && self.prep.is_sub(r, s) && self.has(w, f).is_some() {
+                    let copy = copied[w] || (is_blocker[w] && self.g.nodes[w].parent != Some(o));
+                    if copy && self.prep.is_sub(r, s) && self.has(w, f).is_some() {
                         return true;
                     }
                 }
@@ -1905,3 +2074,7 @@ fn mix(x: u64) -> u64 {
     z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
     z ^ (z >> 31)
 }
+
+#[cfg(test)]
+#[path = "nn_rule_tests.rs"]
+mod nn_rule_tests;

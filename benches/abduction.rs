@@ -21,7 +21,7 @@ use std::time::{Duration, Instant};
 use wherefore::explain::abduce::Strategy;
 use wherefore::explain::case::{Mark, observations_problem};
 use wherefore::explain::{ExplainOptions, Problem, explain};
-use wherefore::kb::owl::{LoadOptions, load, load_axioms_text};
+use wherefore::kb::load::{LoadOptions, load, load_axioms_text};
 
 fn build(shape: Shape, n: usize) -> (Problem, [usize; 3]) {
     let g = generate(shape, n);

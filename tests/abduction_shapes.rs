@@ -9,7 +9,7 @@ use shapes::{Shape, generate};
 use wherefore::explain::abduce::SearchLimit;
 use wherefore::explain::case::{Mark, observations_problem};
 use wherefore::explain::{ExplainOptions, Problem, explain};
-use wherefore::kb::owl::{LoadOptions, load, load_axioms_text};
+use wherefore::kb::load::{LoadOptions, load, load_axioms_text};
 
 /// Loads a generated problem through the same path as the command line.
 fn build(shape: Shape, n: usize) -> (Problem, [usize; 3]) {

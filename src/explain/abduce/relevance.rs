@@ -420,7 +420,7 @@ pub fn bottom_module(kb: &KnowledgeBase, enabled: &[bool], seed: &[Assertion]) -
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::kb::owl::load_axioms_text;
+    use crate::kb::load::load_axioms_text;
 
     fn kb(text: &str) -> KnowledgeBase {
         let mut kb = KnowledgeBase::default();

@@ -77,6 +77,7 @@ DEFAULTS = {
     "dsub": 0.4,         # chance per ontology of one SubDataPropertyOf
     "dassert": 1.0,      # mean number of data assertions per individual
     "key": 0.0,          # chance per ontology of a HasKey axiom (object and data properties)
+    "abox": 1.0,         # 0 leaves out the random ABox (planted key assertions stay)
 }
 
 
@@ -413,7 +414,7 @@ class Gen:
 
     def abox(self):
         rng = self.rng
-        if not self.inds:
+        if not self.inds or not self.w["abox"]:
             return
         for _ in range(rng.randint(1, 2 * len(self.inds))):
             k = rng.choices(["cls", "prop", "self", "neg", "diff"], [30, 40, 8, 5, 8])[0]

@@ -60,6 +60,7 @@ sroiq! {
     key_data_equal_literals: "key-data-literal";
     key_data_values_forced_by_ranges: "key-data-forced";
     key_data_pigeonhole_over_booleans: "key-data-pigeonhole";
+    key_data_pigeonhole_over_an_interval: "key-data-pigeonhole-interval";
     key_data_two_booleans_stay_apart: "key-data-two-booleans";
     key_data_leaves_anonymous_individuals: "key-data-anonymous";
     key_data_through_sub_property: "key-data-subproperty";
@@ -84,5 +85,5 @@ fn sroiq_fixtures_parse_with_horned_owl() {
             n += 1;
         }
     }
-    assert_eq!(n, 21);
+    assert_eq!(n, 22);
 }

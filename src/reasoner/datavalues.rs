@@ -17,6 +17,7 @@
 
 use crate::kb::DataPropId;
 use crate::kb::datarange::DataRange;
+use std::collections::HashMap;
 
 /// A value the node must have.
 #[derive(Clone, Debug)]
@@ -79,7 +80,8 @@ struct Search<'a> {
     /// The owner of each need and of each cap (all 0 for one node).
     need_owner: &'a [u32],
     cap_owner: &'a [u32],
-    apart: &'a [Apart],
+    /// The [`Apart`] pairs by owners, in both orientations: the key properties.
+    apart: HashMap<(u32, u32), Vec<DataPropId>>,
     applies: &'a dyn Fn(DataPropId, DataPropId) -> bool,
     budget: u64,
 }
@@ -118,12 +120,19 @@ pub fn check_joint(
     if needs.iter().any(|n| n.range.is_empty()) {
         return Verdict::Unsat;
     }
+    let mut by_owners: HashMap<(u32, u32), Vec<DataPropId>> = HashMap::new();
+    for ap in apart {
+        by_owners.entry((ap.a, ap.b)).or_default().push(ap.prop);
+        if ap.a != ap.b {
+            by_owners.entry((ap.b, ap.a)).or_default().push(ap.prop);
+        }
+    }
     let mut s = Search {
         needs,
         caps,
         need_owner,
         cap_owner,
-        apart,
+        apart: by_owners,
         applies,
         budget,
     };
@@ -143,14 +152,19 @@ impl Search<'_> {
     /// Whether a class holding `members` and the need (owner `o`, property `p`) would give one
     /// literal to two owners kept apart on a key property (or to an owner apart from itself).
     fn breaks_apart(&self, members: &[(u32, DataPropId)], o: u32, p: DataPropId) -> bool {
-        self.apart.iter().any(|ap| {
-            let under = |q: DataPropId| (self.applies)(q, ap.prop);
-            if !under(p) || (o != ap.a && o != ap.b) {
-                return false;
-            }
-            let other = if o == ap.a { ap.b } else { ap.a };
-            other == o || members.iter().any(|&(w, q)| w == other && under(q))
-        })
+        if self.apart.is_empty() {
+            return false;
+        }
+        let both = |ds: &Vec<DataPropId>, q: DataPropId| {
+            ds.iter()
+                .any(|&d| (self.applies)(p, d) && (self.applies)(q, d))
+        };
+        if self.apart.get(&(o, o)).is_some_and(|ds| both(ds, p)) {
+            return true;
+        }
+        members
+            .iter()
+            .any(|&(w, q)| self.apart.get(&(o, w)).is_some_and(|ds| both(ds, q)))
     }
 
     /// Places need `i` into an existing class or a new one.

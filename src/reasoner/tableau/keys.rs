@@ -14,7 +14,8 @@
 //! [`Limit::DataValues`] rather than guess.
 
 use super::{Choice, Concept, DATA_BUDGET, Dep, Limit, NodeId, Tableau, datavalues};
-use crate::kb::{DataPropId, DataRangeId, RoleId};
+use crate::kb::{DataPropId, DataRange, DataRangeId, RoleId};
+use std::collections::HashSet;
 
 /// Pairs of nodes kept apart on a data property, after merges.
 pub(super) type ApartPairs = Vec<(NodeId, NodeId, DataPropId)>;
@@ -24,11 +25,23 @@ impl Tableau<'_> {
     /// decided on each named individual first (a choose rule), since the model read off the
     /// graph may put an individual in it without the label saying so. Returns whether a rule
     /// applied or a clash or limit was found.
+    ///
+    /// Pairs still undecided are first checked optimistically: when the values exist with
+    /// every such pair apart on its key's first data property, the keys hold in the model
+    /// read off the graph and no branching is needed (so a thousand individuals with open
+    /// identifiers cost one check, not half a million branching points). Only when that
+    /// fails does the first undecided pair become a branching point.
     pub(super) fn apply_keys(&mut self) -> bool {
         let prep = self.prep;
         let named: Vec<NodeId> = (0..self.g.nodes.len())
             .filter(|&x| self.g.nodes[x].active && !self.g.nodes[x].names.is_empty())
             .collect();
+        let mut apart: HashSet<(NodeId, NodeId, DataPropId)> = HashSet::new();
+        for &(a, b, d, _) in &self.g.key_apart {
+            let (a, b) = (self.find(a), self.find(b));
+            apart.insert((a.min(b), a.max(b), d));
+        }
+        let mut pending: Vec<(NodeId, NodeId, Vec<DataPropId>, Dep)> = Vec::new();
         for (c, roles, data) in &prep.keys {
             let c = *c;
             if !matches!(self.concepts.get(c), Concept::Atom(_)) {
@@ -51,9 +64,31 @@ impl Tableau<'_> {
                 .iter()
                 .filter_map(|&x| self.has(x, c).map(|d| (x, d)))
                 .collect();
+            // The ranges of each member's values of each data property of the key.
+            let ranges: Vec<Vec<Vec<DataRange>>> = members
+                .iter()
+                .map(|&(x, _)| data.iter().map(|&d| self.value_ranges(x, d)).collect())
+                .collect();
             for i in 0..members.len() {
                 'pair: for j in i + 1..members.len() {
                     let ((x, dx), (y, dy)) = (members[i], members[j]);
+                    // Values in disjoint ranges are never shared (asserted distinct
+                    // identifiers, the common case), nor are values a node does not have:
+                    // the pair is apart in every model read off this graph.
+                    for (rx, ry) in ranges[i].iter().zip(&ranges[j]) {
+                        if rx
+                            .iter()
+                            .all(|a| ry.iter().all(|b| a.intersect(b).is_empty()))
+                        {
+                            continue 'pair;
+                        }
+                    }
+                    if data
+                        .iter()
+                        .any(|&d| apart.contains(&(x.min(y), x.max(y), d)))
+                    {
+                        continue;
+                    }
                     let mut dep = self.deps.union(dx, dy);
                     for &r in roles {
                         match self.shared_named_filler(x, y, r) {
@@ -61,36 +96,37 @@ impl Tableau<'_> {
                             None => continue 'pair,
                         }
                     }
-                    for &d in data {
-                        match (self.value_demand(x, d), self.value_demand(y, d)) {
-                            (Some(a), Some(b)) => {
-                                let ab = self.deps.union(a, b);
-                                dep = self.deps.union(dep, ab);
-                            }
-                            _ => continue 'pair,
-                        }
-                    }
-                    if !data.is_empty() {
-                        if self.kept_apart(x, y, data) {
-                            continue;
-                        }
-                        self.stats.branches += 1;
-                        self.branch(
-                            Choice::KeyApart {
-                                x,
-                                y,
-                                props: data.clone(),
-                            },
-                            dep,
-                        );
+                    if data.is_empty() {
+                        self.merge_key_pair(x, y, dep);
                         return true;
                     }
-                    self.merge_key_pair(x, y, dep);
-                    return true;
+                    for &d in data {
+                        let (a, b) = (self.value_demand(x, d), self.value_demand(y, d));
+                        let ab = self
+                            .deps
+                            .union(a.unwrap_or(Dep::EMPTY), b.unwrap_or(Dep::EMPTY));
+                        dep = self.deps.union(dep, ab);
+                    }
+                    pending.push((x, y, data.clone(), dep));
                 }
             }
         }
-        self.check_key_values()
+        let optimistic: ApartPairs = pending
+            .iter()
+            .map(|(x, y, ds, _)| (*x, *y, ds[0]))
+            .collect();
+        match self.check_key_values(&optimistic) {
+            Some(true) => return true,
+            Some(false) => {}
+            None => return false,
+        }
+        // Some pair must share its values or be kept apart otherwise: branch on the first.
+        let Some((x, y, props, dep)) = pending.into_iter().next() else {
+            return true;
+        };
+        self.stats.branches += 1;
+        self.branch(Choice::KeyApart { x, y, props }, dep);
+        true
     }
 
     /// Applies alternative `i` of a data key's pair: apart on `props[i]`, or (the last)
@@ -157,12 +193,23 @@ impl Tableau<'_> {
             })
     }
 
-    /// Whether x and y are already kept apart on one of `props`.
-    fn kept_apart(&self, x: NodeId, y: NodeId, props: &[DataPropId]) -> bool {
-        self.g.key_apart.iter().any(|&(a, b, d, _)| {
-            let (a, b) = (self.find(a), self.find(b));
-            props.contains(&d) && ((a, b) == (x, y) || (a, b) == (y, x))
-        })
+    /// The ranges of the values x needs for `d` (∃q.D or ≥n q.D with q ⊑* d), each cut by
+    /// the node's ∀ restrictions and the range axioms.
+    fn value_ranges(&self, x: NodeId, d: DataPropId) -> Vec<DataRange> {
+        let p = self.prep;
+        let alls = self.data_alls(x);
+        self.g.nodes[x]
+            .label
+            .iter()
+            .filter_map(|&c| match *self.concepts.get(c) {
+                Concept::DataSome(q, r) | Concept::DataAtLeast(_, q, r)
+                    if p.data_supers[q.index()].contains(&d) =>
+                {
+                    Some(self.effective_range(q, r, &alls))
+                }
+                _ => None,
+            })
+            .collect()
     }
 
     /// The ∀ restrictions on data properties at x, with their dependencies.
@@ -177,19 +224,23 @@ impl Tableau<'_> {
             .collect()
     }
 
-    /// Checks that the nodes kept apart have values together (each node's own needs and
-    /// caps, no value shared where a pair is apart). Skipped when nothing it reads changed
-    /// since the last check. Returns whether a clash or limit was found.
-    fn check_key_values(&mut self) -> bool {
-        if self.g.key_apart.is_empty() {
-            return false;
+    /// Checks that the nodes kept apart (by the recorded pairs, and by `extra` pairs
+    /// assumed apart) have values together: each node's own needs and caps, no value shared
+    /// where a pair is apart. Skipped when nothing it reads changed since the last success.
+    /// `None`: the values exist; `Some(true)`: a clash (found with no pair assumed) or a
+    /// limit was set; `Some(false)`: none exist with the `extra` pairs assumed apart (no
+    /// clash set, since the assumption is no choice of the search).
+    fn check_key_values(&mut self, extra: &[(NodeId, NodeId, DataPropId)]) -> Option<bool> {
+        if self.g.key_apart.is_empty() && extra.is_empty() {
+            return None;
         }
-        let apart: Vec<(NodeId, NodeId, DataPropId, Dep)> = self
+        let mut apart: Vec<(NodeId, NodeId, DataPropId, Dep)> = self
             .g
             .key_apart
             .iter()
             .map(|&(a, b, d, dep)| (self.find(a), self.find(b), d, dep))
             .collect();
+        apart.extend(extra.iter().map(|&(a, b, d)| (a, b, d, Dep::EMPTY)));
         let mut nodes: Vec<NodeId> = apart.iter().flat_map(|&(a, b, _, _)| [a, b]).collect();
         nodes.sort_unstable();
         nodes.dedup();
@@ -199,7 +250,7 @@ impl Tableau<'_> {
             && *t >= latest
             && *s == seen
         {
-            return false;
+            return None;
         }
         let (mut needs, mut need_owner, mut caps, mut cap_owner) =
             (Vec::new(), Vec::new(), Vec::new(), Vec::new());
@@ -207,7 +258,7 @@ impl Tableau<'_> {
         for (k, &x) in nodes.iter().enumerate() {
             let alls = self.data_alls(x);
             // Groups of ≥n restrictions are numbered apart per node.
-            let (n, c, d) = self.data_problem(x, &alls, (k as u32) << 20);
+            let (n, c, d) = self.data_problem(x, &alls, (k as u32) << 12);
             need_owner.extend(std::iter::repeat_n(k as u32, n.len()));
             cap_owner.extend(std::iter::repeat_n(k as u32, c.len()));
             needs.extend(n);
@@ -237,15 +288,16 @@ impl Tableau<'_> {
         ) {
             datavalues::Verdict::Sat => {
                 self.g.key_checked = Some((latest, seen));
-                false
+                None
             }
-            datavalues::Verdict::Unsat => {
+            datavalues::Verdict::Unsat if extra.is_empty() => {
                 self.set_clash(dep);
-                true
+                Some(true)
             }
+            datavalues::Verdict::Unsat => Some(false),
             datavalues::Verdict::Budget => {
                 self.stopped = Some(Limit::DataValues);
-                true
+                Some(true)
             }
         }
     }

@@ -1,5 +1,6 @@
 //! Hand-derived reasoning checks for the constructs beyond SHIQ: property chains, self
-//! restrictions, reflexive, irreflexive, asymmetric and disjoint properties, keys, nominals
+//! restrictions, reflexive, irreflexive, asymmetric and disjoint properties, keys (on object
+//! and data properties), nominals
 //! anywhere in the TBox, and the top and bottom properties. Each `.ofn` under
 //! tests/fixtures/sroiq/ carries its source and derivation in its header comment; HermiT
 //! 1.3.8 (owlready2 0.51) agrees on every file but `key-complex-class`, whose comment says
@@ -55,6 +56,17 @@ sroiq! {
     key_on_object_property: "key-object";
     key_on_a_union_class: "key-complex-class";
     key_leaves_anonymous_individuals: "key-anonymous";
+    // Keys over data properties: values asserted, forced by ranges, counted, or absent.
+    key_data_equal_literals: "key-data-literal";
+    key_data_values_forced_by_ranges: "key-data-forced";
+    key_data_pigeonhole_over_booleans: "key-data-pigeonhole";
+    key_data_pigeonhole_over_an_interval: "key-data-pigeonhole-interval";
+    key_data_two_booleans_stay_apart: "key-data-two-booleans";
+    key_data_leaves_anonymous_individuals: "key-data-anonymous";
+    key_data_through_sub_property: "key-data-subproperty";
+    key_data_object_and_data_properties: "key-data-mixed";
+    key_data_needs_the_object_filler: "key-data-mixed-no-ward";
+    key_data_against_a_cardinality: "key-data-cardinality";
     nominal_with_functional_property: "nominal-functional";
     nominal_with_inverse_at_most: "nominal-counting";
     // An inverse-functional chain overflows a nominal's at-most restriction past blocking.
@@ -77,7 +89,7 @@ fn sroiq_fixtures_parse_with_horned_owl() {
             n += 1;
         }
     }
-    assert_eq!(n, 14);
+    assert_eq!(n, 24);
 }
 
 /// A cycle among datatype definitions is outside OWL 2 DL (Structural Specification §11.2):

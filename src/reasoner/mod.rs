@@ -27,6 +27,9 @@ use std::time::Instant;
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
 #[serde(rename_all = "snake_case")]
 pub enum Limit {
+    /// The work budget of a search for data values (a node's data number restrictions, or
+    /// the values of data keys across named individuals).
+    DataValues,
     /// The time limit (`--timeout`).
     Time,
     /// The node limit of the completion graph.
@@ -43,6 +46,7 @@ pub enum Limit {
 impl std::fmt::Display for Limit {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
         f.write_str(match self {
+            Limit::DataValues => "work budget of the search for data values reached (data number restrictions or data keys over many values)",
             Limit::Time => "time limit reached",
             Limit::Nodes => "node limit of the completion graph reached",
             Limit::Cancelled => "cancelled",

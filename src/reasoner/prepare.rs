@@ -346,18 +346,10 @@ pub fn prepare(
     p.tbox_nominals = tbox_nominals;
     p.tbox_at_most = has_at_most;
     for (a, src) in &axioms {
-        let Axiom::HasKey(_, roles, data) = a else {
+        let Axiom::HasKey(_, roles, _) = a else {
             continue;
         };
         let text = src.map(|s| kb.sources[s].text.clone());
-        if !data.is_empty() {
-            return Err(Refusal {
-                axiom: text,
-                reason:
-                    "keys on data properties are not supported yet (keys on object properties are)"
-                        .into(),
-            });
-        }
         if roles.iter().any(|r| !p.simple[r.index()]) {
             return Err(Refusal {
                 axiom: text,

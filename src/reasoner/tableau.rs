@@ -25,6 +25,8 @@ use crate::kb::{
 use std::collections::{HashMap, VecDeque};
 use std::rc::Rc;
 
+mod keys;
+
 type NodeId = usize;
 
 /// Work budget of one node's search for data values with number restrictions (steps of
@@ -169,6 +171,12 @@ pub struct Graph {
     /// Whether a tree node may have met a root other than its parent (an edge to a nominal,
     /// a merge into a root): only then can the NN-rule apply, so SHIQ runs skip its test.
     nominal_edges: bool,
+    /// Data keys: pairs of named nodes kept apart on a key's data property (their values of
+    /// it differ), with the dependency of that choice; see `keys.rs`.
+    key_apart: Vec<(NodeId, NodeId, DataPropId, Dep)>,
+    /// When the values of the `key_apart` nodes were last found to exist together: the
+    /// latest change time of those nodes then, and the pairs (after merges) then.
+    key_checked: Option<(u64, keys::ApartPairs)>,
 }
 
 #[derive(Clone, Debug)]
@@ -187,6 +195,12 @@ enum Choice {
         role: RoleId,
         filler: ConceptId,
         max: u32,
+    },
+    /// A data key's pair: apart on one of `props`, else (the last option) merged.
+    KeyApart {
+        x: NodeId,
+        y: NodeId,
+        props: Vec<DataPropId>,
     },
 }
 
@@ -959,10 +973,28 @@ impl<'a> Tableau<'a> {
     /// concept of the node (coarse, but sound for backjumping).
     fn check_data_counts(&mut self, x: NodeId, alls: &[(DataPropId, DataRangeId, Dep)]) {
         let p = self.prep;
+        let (needs, caps, dep) = self.data_problem(x, alls, 0);
+        let applies = |a: DataPropId, b: DataPropId| p.data_supers[a.index()].contains(&b);
+        match datavalues::check(&needs, &caps, &applies, DATA_BUDGET) {
+            datavalues::Verdict::Sat => {}
+            datavalues::Verdict::Unsat => self.set_clash(dep),
+            datavalues::Verdict::Budget => self.stopped = Some(Limit::DataValues),
+        }
+    }
+
+    /// The values node x needs and the caps on them (functional properties as ≤1 q.⊤), as
+    /// [`datavalues`] takes them, with the dependency of every data concept of the node;
+    /// `group` numbers the node's ≥n groups from there.
+    fn data_problem(
+        &mut self,
+        x: NodeId,
+        alls: &[(DataPropId, DataRangeId, Dep)],
+        mut group: u32,
+    ) -> (Vec<datavalues::Need>, Vec<datavalues::Cap>, Dep) {
+        let p = self.prep;
         let mut needs = Vec::new();
         let mut caps = Vec::new();
         let mut dep = Dep::EMPTY;
-        let mut group = 0u32;
         let label: Vec<ConceptId> = self.g.nodes[x].label.to_vec();
         for c in label {
             let (need_n, dp, r, grouped) = match *self.concepts.get(c) {
@@ -1009,12 +1041,7 @@ impl<'a> Tableau<'a> {
                 max: 1,
             });
         }
-        let applies = |a: DataPropId, b: DataPropId| p.data_supers[a.index()].contains(&b);
-        match datavalues::check(&needs, &caps, &applies, DATA_BUDGET) {
-            datavalues::Verdict::Sat => {}
-            datavalues::Verdict::Unsat => self.set_clash(dep),
-            datavalues::Verdict::Budget => self.stopped = Some(Limit::Nodes),
-        }
+        (needs, caps, dep)
     }
 
     /// Which nodes are blocked, directly or through a blocked ancestor. Pairwise anywhere
@@ -1493,6 +1520,7 @@ impl<'a> Tableau<'a> {
             Choice::Add { options, .. } => options.len(),
             Choice::Merge { options } => options.len(),
             Choice::Nominals { max, .. } => *max as usize,
+            Choice::KeyApart { props, .. } => props.len() + 1,
         };
         let last = i + 1 == n;
         let dep = if last {
@@ -1528,6 +1556,7 @@ impl<'a> Tableau<'a> {
             Choice::Nominals {
                 node, role, filler, ..
             } => self.new_nominals(node, role, filler, i as u32 + 1, dep),
+            Choice::KeyApart { x, y, props } => self.apply_key_alternative(x, y, &props, i, dep),
         }
     }
 
@@ -1892,85 +1921,6 @@ impl<'a> Tableau<'a> {
             }
             return Outcome::Sat(self.model());
         }
-    }
-
-    /// The key rule (DL-safe keys, OWL 2 Direct Semantics §2.3.5; Motik, Sattler & Studer
-    /// 2005): two named individuals in a key's class that share a named filler for each of its
-    /// object properties are the same. A key's class that is not a named class is decided on
-    /// each named individual first (a choose rule), since the model read off the graph may put
-    /// an individual in it without the label saying so. Returns whether a rule applied.
-    fn apply_keys(&mut self) -> bool {
-        let prep = self.prep;
-        let named: Vec<NodeId> = (0..self.g.nodes.len())
-            .filter(|&x| self.g.nodes[x].active && !self.g.nodes[x].names.is_empty())
-            .collect();
-        for (c, roles, _) in &prep.keys {
-            let c = *c;
-            if !matches!(self.concepts.get(c), Concept::Atom(_)) {
-                let nc = self.concepts.not(c);
-                for &x in &named {
-                    if self.has(x, c).is_none() && self.has(x, nc).is_none() {
-                        self.stats.branches += 1;
-                        self.branch(
-                            Choice::Add {
-                                node: x,
-                                options: vec![c, nc],
-                            },
-                            Dep::EMPTY,
-                        );
-                        return true;
-                    }
-                }
-            }
-            let members: Vec<(NodeId, Dep)> = named
-                .iter()
-                .filter_map(|&x| self.has(x, c).map(|d| (x, d)))
-                .collect();
-            for i in 0..members.len() {
-                for j in i + 1..members.len() {
-                    let ((x, dx), (y, dy)) = (members[i], members[j]);
-                    let mut dep = self.deps.union(dx, dy);
-                    let mut all = true;
-                    for &r in roles {
-                        match self.shared_named_filler(x, y, r) {
-                            Some(d) => dep = self.deps.union(dep, d),
-                            None => {
-                                all = false;
-                                break;
-                            }
-                        }
-                    }
-                    if !all {
-                        continue;
-                    }
-                    if let Some(d) = self.distinct(x, y) {
-                        let dd = self.deps.union(d, dep);
-                        self.set_clash(dd);
-                    } else {
-                        self.stats.merges += 1;
-                        let (from, into) = if x < y { (y, x) } else { (x, y) };
-                        self.merge(from, into, dep);
-                    }
-                    return true;
-                }
-            }
-        }
-        false
-    }
-
-    /// A named node that is an r-neighbour of both x and y, with the edges' dependencies.
-    fn shared_named_filler(&mut self, x: NodeId, y: NodeId, r: RoleId) -> Option<Dep> {
-        let xs = self.r_neighbours(x, r);
-        let ys = self.r_neighbours(y, r);
-        for (z, dz) in xs {
-            if self.g.nodes[z].names.is_empty() {
-                continue;
-            }
-            if let Some(&(_, dz2)) = ys.iter().find(|&&(w, _)| w == z) {
-                return Some(self.deps.union(dz, dz2));
-            }
-        }
-        None
     }
 
     /// Whether the model read off the finished graph could break a root node's at-most

@@ -765,8 +765,10 @@ mod tests {
     fn self_restriction() {
         // Manchester syntax (OWL 2 W3C Note): `r Self` is ObjectHasSelf(r).
         let ix = index();
-        let f = parse_manchester("r Self", &ix, false).unwrap();
-        assert!(f.starts_with("ObjectHasSelf("), "{f}");
+        assert_eq!(
+            parse_manchester("r Self", &ix, false).unwrap(),
+            Statement::Class("ObjectHasSelf(<http://ex.org/t#r>)".into())
+        );
     }
 
     #[test]

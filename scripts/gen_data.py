@@ -65,6 +65,56 @@ PATTERNS = ["[ab]*", "a+b?", "(ab|ba)", "[a-c]{2}", "b.*", "[^a]*"]
 DATES = ["2020-01-01T00:00:00Z", "2020-06-01T00:00:00+02:00", "2021-01-01T00:00:00Z"]
 
 
+def facet_range(rnd):
+    """A datatype restriction with facets: numbers, strings, dateTime or double."""
+    k = rnd.random()
+    if k < 0.3:
+        lo, hi = sorted(rnd.sample(range(-3, 6), 2))
+        f1 = rnd.choice(["minInclusive", "minExclusive"])
+        f2 = rnd.choice(["maxInclusive", "maxExclusive"])
+        dt = rnd.choice(["xsd:integer", "xsd:decimal", "owl:rational"])
+        parts = []
+        if rnd.random() < 0.8:
+            parts.append('xsd:%s "%d"^^xsd:integer' % (f1, lo))
+        if rnd.random() < 0.8 or not parts:
+            parts.append('xsd:%s "%s"^^xsd:decimal' % (f2, hi if rnd.random() < 0.7 else "%d.5" % hi))
+        return "DatatypeRestriction(%s %s)" % (dt, " ".join(parts))
+    if k < 0.65:
+        parts = []
+        if rnd.random() < 0.6:
+            f = rnd.choice(["length", "minLength", "maxLength"])
+            parts.append('xsd:%s "%d"^^xsd:nonNegativeInteger' % (f, rnd.randint(0, 3)))
+        if rnd.random() < 0.6 or not parts:
+            parts.append('xsd:pattern "%s"' % rnd.choice(PATTERNS))
+        return "DatatypeRestriction(xsd:string %s)" % " ".join(parts)
+    if k < 0.85:
+        f = rnd.choice(["minInclusive", "minExclusive", "maxInclusive", "maxExclusive"])
+        return 'DatatypeRestriction(xsd:dateTime xsd:%s "%s"^^xsd:dateTime)' % (
+            f,
+            rnd.choice(DATES),
+        )
+    f = rnd.choice(["minInclusive", "maxExclusive"])
+    return 'DatatypeRestriction(xsd:double xsd:%s "%s"^^xsd:double)' % (
+        f,
+        rnd.choice(["0.0", "1.5", "-2.0"]),
+    )
+
+def data_range(rnd, depth=0):
+    """A random data range of the datatype map (also used by gen_sroiq.py --data)."""
+    k = rnd.random()
+    if depth > 1 or k < 0.25:
+        return rnd.choice(NAMED)
+    if k < 0.55:
+        return facet_range(rnd)
+    if k < 0.7:
+        return "DataOneOf(%s)" % " ".join(rnd.sample(LITERALS, rnd.randint(1, 3)))
+    if k < 0.8:
+        return "DataComplementOf(%s)" % data_range(rnd, depth + 1)
+    if k < 0.9:
+        return "DataUnionOf(%s %s)" % (data_range(rnd, depth + 1), data_range(rnd, depth + 1))
+    return "DataIntersectionOf(%s %s)" % (data_range(rnd, depth + 1), data_range(rnd, depth + 1))
+
+
 def gen(seed):
     rnd = random.Random(seed)
     ns = "http://example.org/data/%d#" % seed
@@ -73,67 +123,20 @@ def gen(seed):
     inds = [":i%d" % i for i in range(rnd.randint(1, 3))]
     ax = []
 
-    def facet_range():
-        k = rnd.random()
-        if k < 0.3:
-            lo, hi = sorted(rnd.sample(range(-3, 6), 2))
-            f1 = rnd.choice(["minInclusive", "minExclusive"])
-            f2 = rnd.choice(["maxInclusive", "maxExclusive"])
-            dt = rnd.choice(["xsd:integer", "xsd:decimal", "owl:rational"])
-            parts = []
-            if rnd.random() < 0.8:
-                parts.append('xsd:%s "%d"^^xsd:integer' % (f1, lo))
-            if rnd.random() < 0.8 or not parts:
-                parts.append('xsd:%s "%s"^^xsd:decimal' % (f2, hi if rnd.random() < 0.7 else "%d.5" % hi))
-            return "DatatypeRestriction(%s %s)" % (dt, " ".join(parts))
-        if k < 0.65:
-            parts = []
-            if rnd.random() < 0.6:
-                f = rnd.choice(["length", "minLength", "maxLength"])
-                parts.append('xsd:%s "%d"^^xsd:nonNegativeInteger' % (f, rnd.randint(0, 3)))
-            if rnd.random() < 0.6 or not parts:
-                parts.append('xsd:pattern "%s"' % rnd.choice(PATTERNS))
-            return "DatatypeRestriction(xsd:string %s)" % " ".join(parts)
-        if k < 0.85:
-            f = rnd.choice(["minInclusive", "minExclusive", "maxInclusive", "maxExclusive"])
-            return 'DatatypeRestriction(xsd:dateTime xsd:%s "%s"^^xsd:dateTime)' % (
-                f,
-                rnd.choice(DATES),
-            )
-        f = rnd.choice(["minInclusive", "maxExclusive"])
-        return 'DatatypeRestriction(xsd:double xsd:%s "%s"^^xsd:double)' % (
-            f,
-            rnd.choice(["0.0", "1.5", "-2.0"]),
-        )
-
-    def dr(depth=0):
-        k = rnd.random()
-        if depth > 1 or k < 0.25:
-            return rnd.choice(NAMED)
-        if k < 0.55:
-            return facet_range()
-        if k < 0.7:
-            return "DataOneOf(%s)" % " ".join(rnd.sample(LITERALS, rnd.randint(1, 3)))
-        if k < 0.8:
-            return "DataComplementOf(%s)" % dr(depth + 1)
-        if k < 0.9:
-            return "DataUnionOf(%s %s)" % (dr(depth + 1), dr(depth + 1))
-        return "DataIntersectionOf(%s %s)" % (dr(depth + 1), dr(depth + 1))
-
     def ce(depth=0):
         k = rnd.random()
         p = rnd.choice(props)
         if depth > 1 or k < 0.2:
             return rnd.choice(classes)
         if k < 0.4:
-            return "DataSomeValuesFrom(%s %s)" % (p, dr())
+            return "DataSomeValuesFrom(%s %s)" % (p, data_range(rnd))
         if k < 0.5:
-            return "DataAllValuesFrom(%s %s)" % (p, dr())
+            return "DataAllValuesFrom(%s %s)" % (p, data_range(rnd))
         if k < 0.6:
             return "DataHasValue(%s %s)" % (p, rnd.choice(LITERALS))
         if k < 0.75:
             kind = rnd.choice(["DataMinCardinality", "DataMaxCardinality", "DataExactCardinality"])
-            return "%s(%d %s %s)" % (kind, rnd.randint(0, 3), p, dr())
+            return "%s(%d %s %s)" % (kind, rnd.randint(0, 3), p, data_range(rnd))
         if k < 0.83:
             return "ObjectComplementOf(%s)" % ce(depth + 1)
         if k < 0.92:
@@ -156,7 +159,7 @@ def gen(seed):
         if r < 0.25:
             ax.append("FunctionalDataProperty(%s)" % p)
         elif r < 0.5:
-            ax.append("DataPropertyRange(%s %s)" % (p, dr(1)))
+            ax.append("DataPropertyRange(%s %s)" % (p, data_range(rnd, 1)))
     if len(props) > 1 and rnd.random() < 0.5:
         a, b = rnd.sample(props, 2)
         ax.append("SubDataPropertyOf(%s %s)" % (a, b))

@@ -25,9 +25,17 @@ OWL 2 DL's global restrictions are kept (OWL 2 Structural Specification, section
   non-simplicity (transitive, or a chain or non-simple sub-property below, inverses
   included) and asserts the pools are right before anything is written.
 
-Not generated: HasKey, data properties, owl:topObjectProperty/bottomObjectProperty.
+With `--data` (SROIQ(D)): 1-3 data properties besides, whose class expressions
+(DataSomeValuesFrom, DataAllValuesFrom, DataHasValue and qualified data cardinalities) mix
+with the object constructs above, over the data ranges of scripts/gen_data.py (numbers with
+interval facets, strings with length and pattern facets, booleans, dateTime with a
+timezone, doubles, enumerations, complements, unions, intersections); functional data
+properties, data ranges, domains and sub-data-properties; data assertions in the ABox; and,
+with weight `key`, HasKey axioms over object and data properties.
 
-Usage: gen_sroiq.py --seed S [--count N] [--out DIR] [--nominals] [--set KEY=W ...]
+Not generated: owl:topObjectProperty/bottomObjectProperty, datatype definitions.
+
+Usage: gen_sroiq.py --seed S [--count N] [--out DIR] [--nominals] [--data] [--set KEY=W ...]
        (`--set chain=0` turns chains off; `--list` prints the weights and their defaults)
 """
 
@@ -35,6 +43,9 @@ import argparse
 import os
 import random
 import sys
+
+sys.path.insert(0, os.path.dirname(os.path.abspath(__file__)))
+import gen_data  # noqa: E402
 
 # Weights of the constructs (probabilities or relative weights, as named). `--set` overrides.
 DEFAULTS = {
@@ -58,15 +69,25 @@ DEFAULTS = {
     "range": 0.15,       # chance per property of ObjectPropertyRange
     "individuals": 0.4,  # chance per ontology of an ABox
     "planted": 0.4,      # chance per ontology of a planted SROIQ conflict
+    # Only with --data:
+    "data": 14,          # relative weight of each of the four data restrictions
+    "dfunctional": 0.3,  # chance per data property of FunctionalDataProperty
+    "drange": 0.25,      # chance per data property of DataPropertyRange
+    "ddomain": 0.1,      # chance per data property of DataPropertyDomain
+    "dsub": 0.4,         # chance per ontology of one SubDataPropertyOf
+    "dassert": 1.0,      # mean number of data assertions per individual
+    "key": 0.0,          # chance per ontology of a HasKey axiom (object and data properties)
+    "abox": 1.0,         # 0 leaves out the random ABox (planted key assertions stay)
 }
 
 
 class Gen:
     """State of one ontology under construction."""
 
-    def __init__(self, seed, nominals=False, weights=None):
+    def __init__(self, seed, nominals=False, weights=None, data=False):
         self.seed = seed
         self.nominals = nominals
+        self.data = data
         self.w = dict(DEFAULTS)
         self.w.update(weights or {})
         self.rng = random.Random(seed)
@@ -95,6 +116,8 @@ class Gen:
         self.in_chain = set()
         self.transitive = set()
         self.max_depth = rng.choice([1, 2, 2, 3])
+        # Drawn last, and only with --data, so that the other modes stay byte-identical.
+        self.dprops = [":d%d" % i for i in range(rng.randint(1, 3))] if data else []
 
     def free(self):
         return [p for p in self.props if p not in self.simple]
@@ -228,6 +251,9 @@ class Gen:
         if self.nominals and self.inds:
             kinds += ["hasvalue", "oneof"]
             weights += [self.w["hasvalue"], self.w["oneof"]]
+        if self.data:
+            kinds += ["dsome", "dall", "dvalue", "dcard"]
+            weights += [self.w["data"]] * 4
         k = rng.choices(kinds, weights)[0]
         sub = lambda: self.expr(depth - 1)  # noqa: E731
         if k == "and":
@@ -246,6 +272,8 @@ class Gen:
             return "ObjectComplementOf(ObjectHasSelf(%s))" % self.role(simple_only=True)
         if k == "hasvalue":
             return "ObjectHasValue(%s %s)" % (self.role(), rng.choice(self.inds))
+        if k in ("dsome", "dall", "dvalue", "dcard"):
+            return self.data_expr(k)
         if k == "oneof":
             return "ObjectOneOf(%s)" % " ".join(rng.sample(self.inds, rng.randint(1, min(3, len(self.inds)))))
         name = rng.choice(["ObjectMinCardinality", "ObjectMaxCardinality", "ObjectMaxCardinality",
@@ -254,6 +282,79 @@ class Gen:
         if rng.random() < 0.2:
             return "%s(%d %s)" % (name, n, self.role(simple_only=True))
         return "%s(%d %s %s)" % (name, n, self.role(simple_only=True), sub())
+
+    def data_expr(self, k):
+        rng = self.rng
+        d = rng.choice(self.dprops)
+        if k == "dsome":
+            return "DataSomeValuesFrom(%s %s)" % (d, gen_data.data_range(rng))
+        if k == "dall":
+            return "DataAllValuesFrom(%s %s)" % (d, gen_data.data_range(rng))
+        if k == "dvalue":
+            return "DataHasValue(%s %s)" % (d, rng.choice(gen_data.LITERALS))
+        name = rng.choice(["DataMinCardinality", "DataMaxCardinality", "DataExactCardinality"])
+        n = rng.choices([0, 1, 2, 3], [5, 45, 35, 15])[0]
+        if rng.random() < 0.2:
+            return "%s(%d %s)" % (name, n, d)
+        return "%s(%d %s %s)" % (name, n, d, gen_data.data_range(rng))
+
+    def data_axioms(self):
+        """Data property axioms and, with weight `key`, a key over object and data properties."""
+        rng = self.rng
+        for d in self.dprops:
+            if rng.random() < self.w["dfunctional"]:
+                self.axioms.append("FunctionalDataProperty(%s)" % d)
+            if rng.random() < self.w["drange"]:
+                self.axioms.append("DataPropertyRange(%s %s)" % (d, gen_data.data_range(rng, 1)))
+            if rng.random() < self.w["ddomain"]:
+                self.axioms.append("DataPropertyDomain(%s %s)" % (d, self.expr(1)))
+        if len(self.dprops) >= 2 and rng.random() < self.w["dsub"]:
+            a, b = rng.sample(self.dprops, 2)
+            self.axioms.append("SubDataPropertyOf(%s %s)" % (a, b))
+        if rng.random() < self.w["key"]:
+            c = self.expr(1) if rng.random() < 0.3 else rng.choice(self.classes)
+            # Keys take simple object properties (as wherefore asks) and data properties.
+            rs = rng.sample(sorted(self.simple), rng.choice([0, 0, 1]))
+            ds = rng.sample(self.dprops, rng.randint(1 if not rs else 0, min(2, len(self.dprops))))
+            self.axioms.append("HasKey(%s (%s) (%s))" % (c, " ".join(rs), " ".join(ds)))
+            self.key = (c, rs, ds)
+
+    def data_abox(self):
+        rng = self.rng
+        if getattr(self, "key", None) and len(self.inds) >= 2 and rng.random() < 0.7:
+            self.planted_key()
+        for a in self.inds:
+            for _ in range(int(rng.random() * 2 * self.w["dassert"] + 0.5)):
+                self.axioms.append("DataPropertyAssertion(%s %s %s)"
+                                   % (rng.choice(self.dprops), a, rng.choice(gen_data.LITERALS)))
+
+    def planted_key(self):
+        """Two individuals in the key's class that share the key's fillers and values (the
+        value asserted, or forced by a one-value range), one of them in a class the other is
+        not in: the key decides whether that clashes."""
+        rng = self.rng
+        c, rs, ds = self.key
+        a, b = rng.sample(self.inds, 2)
+        self.axioms.append("ClassAssertion(%s %s)" % (c, a))
+        self.axioms.append("ClassAssertion(%s %s)" % (c, b))
+        for r in rs:
+            k = rng.choice(self.inds)
+            self.axioms.append("ObjectPropertyAssertion(%s %s %s)" % (r, a, k))
+            self.axioms.append("ObjectPropertyAssertion(%s %s %s)" % (r, b, k))
+        for d in ds:
+            v = rng.choice(gen_data.LITERALS)
+            self.axioms.append("DataPropertyAssertion(%s %s %s)" % (d, a, v))
+            form = rng.random()
+            if form < 0.4:
+                self.axioms.append("DataPropertyAssertion(%s %s %s)" % (d, b, v))
+            elif form < 0.7:
+                self.axioms.append("ClassAssertion(DataSomeValuesFrom(%s DataOneOf(%s)) %s)" % (d, v, b))
+            else:  # a value of a random range, which may or may not meet a's
+                self.axioms.append("ClassAssertion(DataSomeValuesFrom(%s %s) %s)"
+                                   % (d, gen_data.data_range(rng), b))
+        x = rng.choice(self.classes)
+        self.axioms.append("ClassAssertion(%s %s)" % (x, a))
+        self.axioms.append("ClassAssertion(ObjectComplementOf(%s) %s)" % (x, b))
 
     def tbox(self):
         rng = self.rng
@@ -313,7 +414,7 @@ class Gen:
 
     def abox(self):
         rng = self.rng
-        if not self.inds:
+        if not self.inds or not self.w["abox"]:
             return
         for _ in range(rng.randint(1, 2 * len(self.inds))):
             k = rng.choices(["cls", "prop", "self", "neg", "diff"], [30, 40, 8, 5, 8])[0]
@@ -334,8 +435,13 @@ class Gen:
         self.rbox()
         self.check_simple()
         self.tbox()
+        if self.data:
+            self.data_axioms()
         self.abox()
-        base = "http://example.org/sroiq/%d%s" % (self.seed, "n" if self.nominals else "")
+        if self.data:
+            self.data_abox()
+        base = "http://example.org/sroiq/%d%s%s" % (self.seed, "n" if self.nominals else "",
+                                                    "d" if self.data else "")
         out = [
             "Prefix(:=<%s#>)" % base,
             "Prefix(owl:=<http://www.w3.org/2002/07/owl#>)",
@@ -347,15 +453,16 @@ class Gen:
         ]
         out += ["Declaration(Class(%s))" % c for c in self.classes]
         out += ["Declaration(ObjectProperty(%s))" % p for p in self.props]
+        out += ["Declaration(DataProperty(%s))" % d for d in self.dprops]
         out += ["Declaration(NamedIndividual(%s))" % i for i in self.inds]
         out += self.axioms
         out.append(")")
         return "\n".join(out) + "\n"
 
 
-def generate(seed, nominals=False, weights=None):
+def generate(seed, nominals=False, weights=None, data=False):
     """The ontology for `seed` (and options), as functional-syntax text."""
-    return Gen(seed, nominals, weights).render()
+    return Gen(seed, nominals, weights, data).render()
 
 
 def parse_sets(items):
@@ -375,6 +482,7 @@ def main(argv):
     ap.add_argument("--count", type=int, default=1)
     ap.add_argument("--out", help="folder to write <seed>.ofn files into (else stdout)")
     ap.add_argument("--nominals", action="store_true", help="ObjectHasValue and ObjectOneOf in the TBox")
+    ap.add_argument("--data", action="store_true", help="data properties and data ranges besides (SROIQ(D))")
     ap.add_argument("--set", action="append", metavar="KEY=W", help="override a weight")
     ap.add_argument("--list", action="store_true", help="print the weights and exit")
     a = ap.parse_args(argv)
@@ -388,7 +496,7 @@ def main(argv):
     if a.out:
         os.makedirs(a.out, exist_ok=True)
     for s in range(a.seed, a.seed + a.count):
-        text = generate(s, a.nominals, weights)
+        text = generate(s, a.nominals, weights, a.data)
         if a.out:
             path = os.path.join(a.out, "%d.ofn" % s)
             tmp = path + ".tmp"

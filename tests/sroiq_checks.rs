@@ -1,5 +1,6 @@
 //! Hand-derived reasoning checks for the constructs beyond SHIQ: property chains, self
-//! restrictions, reflexive, irreflexive, asymmetric and disjoint properties, keys, nominals
+//! restrictions, reflexive, irreflexive, asymmetric and disjoint properties, keys (on object
+//! and data properties), nominals
 //! anywhere in the TBox, and the top and bottom properties. Each `.ofn` under
 //! tests/fixtures/sroiq/ carries its source and derivation in its header comment; HermiT
 //! 1.3.8 (owlready2 0.51) agrees on every file but `key-complex-class`, whose comment says
@@ -55,9 +56,24 @@ sroiq! {
     key_on_object_property: "key-object";
     key_on_a_union_class: "key-complex-class";
     key_leaves_anonymous_individuals: "key-anonymous";
+    // Keys over data properties: values asserted, forced by ranges, counted, or absent.
+    key_data_equal_literals: "key-data-literal";
+    key_data_values_forced_by_ranges: "key-data-forced";
+    key_data_pigeonhole_over_booleans: "key-data-pigeonhole";
+    key_data_pigeonhole_over_an_interval: "key-data-pigeonhole-interval";
+    key_data_two_booleans_stay_apart: "key-data-two-booleans";
+    key_data_leaves_anonymous_individuals: "key-data-anonymous";
+    key_data_through_sub_property: "key-data-subproperty";
+    key_data_object_and_data_properties: "key-data-mixed";
+    key_data_needs_the_object_filler: "key-data-mixed-no-ward";
+    key_data_against_a_cardinality: "key-data-cardinality";
     nominal_with_functional_property: "nominal-functional";
     nominal_with_inverse_at_most: "nominal-counting";
+    // An inverse-functional chain overflows a nominal's at-most restriction past blocking.
+    nominal_at_most_past_blocking: "nominal-chain";
     complement_of_enumeration: "nominal-complement";
+    // The OWL 2 Primer's ages: definitions used before they are given, one built from two.
+    datatype_definitions: "datatype-definition";
     top_and_bottom_properties: "top-bottom-properties";
 }
 
@@ -73,5 +89,43 @@ fn sroiq_fixtures_parse_with_horned_owl() {
             n += 1;
         }
     }
-    assert_eq!(n, 12);
+    assert_eq!(n, 24);
+}
+
+/// A cycle among datatype definitions is outside OWL 2 DL (Structural Specification §11.2):
+/// exit 2, with the cycle named; so is a facet on a defined datatype (§7.5).
+#[test]
+fn datatype_definition_refusals_name_the_problem() {
+    let tmp = std::env::temp_dir().join(format!("wherefore-dtdef-{}", std::process::id()));
+    std::fs::create_dir_all(&tmp).unwrap();
+    let head = "Prefix(:=<http://example.org/d#>)\nPrefix(xsd:=<http://www.w3.org/2001/XMLSchema#>)\nOntology(<http://example.org/d>\nDeclaration(Datatype(:a)) Declaration(Datatype(:b))\n";
+    for (name, body, needle) in [
+        (
+            "cycle.ofn",
+            "DatatypeDefinition(:a DataUnionOf(:b xsd:string))\nDatatypeDefinition(:b DataComplementOf(:a))\n",
+            "http://example.org/d#a -> http://example.org/d#b -> http://example.org/d#a",
+        ),
+        (
+            "facet.ofn",
+            "DatatypeDefinition(:a xsd:integer)\nDatatypeDefinition(:b DatatypeRestriction(:a xsd:minInclusive \"1\"^^xsd:integer))\n",
+            "a datatype defined in the ontology",
+        ),
+        (
+            "redefine.ofn",
+            "DatatypeDefinition(xsd:integer xsd:string)\n",
+            "cannot be redefined",
+        ),
+    ] {
+        let f = tmp.join(name);
+        std::fs::write(&f, format!("{head}{body})\n")).unwrap();
+        let out = std::process::Command::new(env!("CARGO_BIN_EXE_wherefore"))
+            .args(["classify", f.to_str().unwrap()])
+            .output()
+            .unwrap();
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert_eq!(out.status.code(), Some(2), "{name}: {err}");
+        assert!(err.contains(needle), "{name}: {err}");
+        assert!(err.contains(name), "{name} names the file: {err}");
+    }
+    std::fs::remove_dir_all(&tmp).ok();
 }

@@ -231,29 +231,25 @@ impl DataRange {
     pub fn describe(&self) -> String {
         text::describe(self)
     }
-
-    fn key(&self) -> String {
-        format!("{:?}", self)
-    }
 }
 
 /// Interned data ranges with their complements.
 #[derive(Clone, Debug, Default)]
 pub struct DataRangeStore {
     ranges: Vec<DataRange>,
-    ids: HashMap<String, DataRangeId>,
+    /// Ranges interned by structural equality.
+    ids: HashMap<DataRange, DataRangeId>,
 }
 
 impl DataRangeStore {
     /// Interns a range.
     pub fn intern(&mut self, r: DataRange) -> DataRangeId {
-        let k = r.key();
-        if let Some(&id) = self.ids.get(&k) {
+        if let Some(&id) = self.ids.get(&r) {
             return id;
         }
         let id = DataRangeId(self.ranges.len() as u32);
+        self.ids.insert(r.clone(), id);
         self.ranges.push(r);
-        self.ids.insert(k, id);
         id
     }
 

@@ -254,6 +254,8 @@ pub struct KnowledgeBase {
     pub tbox_nominals: bool,
     /// The files loaded, in order.
     pub files: Vec<String>,
+    /// Datatypes named by `DatatypeDefinition` axioms, by IRI, with the ranges they stand for.
+    pub datatype_defs: BTreeMap<String, DataRange>,
 }
 
 impl KnowledgeBase {

@@ -10,6 +10,7 @@ use horned_owl::model::{
     DataRange as HDataRange, Individual, Literal, ObjectPropertyExpression as OPE,
     PropertyExpression, SubObjectPropertyExpression,
 };
+use std::collections::BTreeMap;
 
 pub(super) const XSD: &str = "http://www.w3.org/2001/XMLSchema#";
 pub(super) const OWL: &str = "http://www.w3.org/2002/07/owl#";
@@ -28,6 +29,101 @@ pub(super) struct Converter<'a> {
 pub const MAX_NESTING: usize = 100_000;
 
 type Conv<T> = Result<T, String>;
+
+/// The `DatatypeDefinition` axioms of a set of documents, read before any other axiom so that
+/// a defined datatype can be used in any file of the closure, before or after its definition.
+/// OWL 2 DL forbids cycles among definitions (Structural Specification §11.2); a cycle is
+/// refused with its chain named, like a definition of a datatype of the datatype map.
+pub(super) fn define_datatypes(
+    kb: &mut KnowledgeBase,
+    docs: &[(String, &[AnnotatedComponent<ArcStr>])],
+    lenient: bool,
+) -> Result<(), KbError> {
+    let mut raw: BTreeMap<String, (String, String, HDataRange<ArcStr>)> = BTreeMap::new();
+    for (file, comps) in docs {
+        for ac in comps.iter() {
+            if let Component::DatatypeDefinition(d) = &ac.component {
+                let text = ac.component.as_functional().to_string();
+                raw.insert(d.kind.0.to_string(), (file.clone(), text, d.range.clone()));
+            }
+        }
+    }
+    let names: Vec<String> = raw.keys().cloned().collect();
+    for name in names {
+        let mut resolving = Vec::new();
+        if let Err(reason) = resolve_datatype(kb, &raw, &name, &mut resolving) {
+            let (file, axiom, _) = &raw[&name];
+            if lenient {
+                kb.warnings
+                    .push(format!("{file}: dropped {axiom} ({reason})"));
+                kb.incomplete = true;
+            } else {
+                return Err(KbError::Unsupported {
+                    file: file.clone(),
+                    axiom: axiom.clone(),
+                    reason,
+                });
+            }
+        }
+    }
+    Ok(())
+}
+
+/// Converts the definition of `name` (and, first, those it uses) into `kb.datatype_defs`.
+fn resolve_datatype(
+    kb: &mut KnowledgeBase,
+    raw: &BTreeMap<String, (String, String, HDataRange<ArcStr>)>,
+    name: &str,
+    resolving: &mut Vec<String>,
+) -> Conv<()> {
+    if kb.datatype_defs.contains_key(name) {
+        return Ok(());
+    }
+    if datatype::lookup(name).is_ok() {
+        return Err(format!(
+            "<{name}> belongs to the OWL 2 datatype map and cannot be redefined (OWL 2 Structural Specification §9.6); define a datatype of your own"
+        ));
+    }
+    if let Some(at) = resolving.iter().position(|n| n == name) {
+        let mut cycle: Vec<&str> = resolving[at..].iter().map(|s| s.as_str()).collect();
+        cycle.push(name);
+        return Err(format!(
+            "datatype definitions form a cycle ({}), which OWL 2 DL forbids; break it",
+            cycle.join(" -> ")
+        ));
+    }
+    resolving.push(name.to_string());
+    let (file, _, range) = &raw[name];
+    for used in datatypes_in(range) {
+        if raw.contains_key(&used) {
+            resolve_datatype(kb, raw, &used, resolving)?;
+        }
+    }
+    let mut conv = Converter {
+        kb,
+        file: file.clone(),
+        lenient: false,
+        depth: 0,
+    };
+    let r = conv.data_range(range)?;
+    kb.datatype_defs.insert(name.to_string(), r);
+    resolving.pop();
+    Ok(())
+}
+
+/// The datatype IRIs a data range names.
+fn datatypes_in(d: &HDataRange<ArcStr>) -> Vec<String> {
+    match d {
+        HDataRange::Datatype(dt) | HDataRange::DatatypeRestriction(dt, _) => {
+            vec![dt.0.to_string()]
+        }
+        HDataRange::DataIntersectionOf(xs) | HDataRange::DataUnionOf(xs) => {
+            xs.iter().flat_map(datatypes_in).collect()
+        }
+        HDataRange::DataComplementOf(x) => datatypes_in(x),
+        HDataRange::DataOneOf(_) => Vec::new(),
+    }
+}
 
 impl Converter<'_> {
     pub(super) fn convert_all(
@@ -77,6 +173,10 @@ impl Converter<'_> {
                 self.class_concept(&cl.0);
                 Ok(false)
             }
+            // A declaration of a built-in (owl:topObjectProperty, …, as some writers emit) names
+            // no property of the ontology.
+            C::DeclareObjectProperty(p) if p.0.starts_with(OWL) => Ok(false),
+            C::DeclareDataProperty(p) if p.0.starts_with(OWL) => Ok(false),
             C::DeclareObjectProperty(p) => {
                 self.kb.vocab.prop(&p.0);
                 Ok(false)
@@ -314,7 +414,8 @@ impl Converter<'_> {
                 self.kb.push(Axiom::FunctionalData(p), src);
                 Ok(true)
             }
-            C::DatatypeDefinition(_) => Err("datatype definitions are not supported".into()),
+            // Read before every other axiom (`define_datatypes`); uses are replaced by the range.
+            C::DatatypeDefinition(_) => Ok(true),
             C::HasKey(ax) => {
                 let c = self.ce(&ax.ce)?;
                 let mut roles = Vec::new();
@@ -627,7 +728,10 @@ impl Converter<'_> {
 
     fn data_range(&mut self, d: &HDataRange<ArcStr>) -> Conv<DataRange> {
         Ok(match d {
-            HDataRange::Datatype(dt) => datatype::named(&dt.0)?,
+            HDataRange::Datatype(dt) => match self.kb.datatype_defs.get(&*dt.0) {
+                Some(r) => r.clone(),
+                None => datatype::named(&dt.0)?,
+            },
             HDataRange::DataIntersectionOf(xs) => {
                 let mut acc = DataRange::everything();
                 for x in xs {
@@ -649,6 +753,14 @@ impl Converter<'_> {
                     acc = acc.union(&self.literal_range(l)?);
                 }
                 acc
+            }
+            HDataRange::DatatypeRestriction(dt, _)
+                if self.kb.datatype_defs.contains_key(&*dt.0) =>
+            {
+                return Err(format!(
+                    "a facet restriction on <{}>, a datatype defined in the ontology; OWL 2 allows facets only on datatypes of the datatype map (§7.5): restrict the datatype it is defined from",
+                    dt.0
+                ));
             }
             HDataRange::DatatypeRestriction(dt, facets) => {
                 let fs: Vec<_> = facets

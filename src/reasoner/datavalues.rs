@@ -10,9 +10,14 @@
 //! checks distinctness by Hall's marriage condition on the classes with few candidate
 //! literals (Hall 1935). This is the datatype checking of Motik & Horrocks, "OWL Datatypes:
 //! Design and Implementation" (ISWC 2008), §4, specialised to our exact value spaces.
+//!
+//! [`check_joint`] asks the same question of several nodes at once, for keys over data
+//! properties: each need and cap has an owner (a node), a cap counts only its owner's values,
+//! and an [`Apart`] pair forbids one value from being a key property's value of both nodes.
 
 use crate::kb::DataPropId;
 use crate::kb::datarange::DataRange;
+use std::collections::HashMap;
 
 /// A value the node must have.
 #[derive(Clone, Debug)]
@@ -47,9 +52,24 @@ pub enum Verdict {
     Budget,
 }
 
+/// Two owners (nodes) whose values of `prop` (and of its sub-properties) must differ: the
+/// alternative of a data key that keeps two named individuals apart. An owner apart from
+/// itself may have no such value at all.
+#[derive(Clone, Copy, Debug, PartialEq, Eq)]
+pub struct Apart {
+    /// One owner.
+    pub a: u32,
+    /// The other owner.
+    pub b: u32,
+    /// The key's data property.
+    pub prop: DataPropId,
+}
+
 struct Class {
     range: DataRange,
     groups: Vec<u32>,
+    /// (owner, property) of the needs placed in the class, for the [`Apart`] pairs.
+    members: Vec<(u32, DataPropId)>,
     /// Which caps apply (the class holds a value of a sub-property of the cap's property).
     caps: Vec<bool>,
 }
@@ -57,6 +77,11 @@ struct Class {
 struct Search<'a> {
     needs: &'a [Need],
     caps: &'a [Cap],
+    /// The owner of each need and of each cap (all 0 for one node).
+    need_owner: &'a [u32],
+    cap_owner: &'a [u32],
+    /// The [`Apart`] pairs by owners, in both orientations: the key properties.
+    apart: HashMap<(u32, u32), Vec<DataPropId>>,
     applies: &'a dyn Fn(DataPropId, DataPropId) -> bool,
     budget: u64,
 }
@@ -69,12 +94,45 @@ pub fn check(
     applies: &dyn Fn(DataPropId, DataPropId) -> bool,
     budget: u64,
 ) -> Verdict {
+    check_joint(
+        needs,
+        &vec![0; needs.len()],
+        caps,
+        &vec![0; caps.len()],
+        &[],
+        applies,
+        budget,
+    )
+}
+
+/// [`check`] over the needs and caps of several owners, `need_owner[i]` owning `needs[i]`
+/// and `cap_owner[j]` owning `caps[j]`, with the [`Apart`] pairs; groups must be numbered
+/// apart across owners. One value class is one literal shared by whichever owners have it.
+pub fn check_joint(
+    needs: &[Need],
+    need_owner: &[u32],
+    caps: &[Cap],
+    cap_owner: &[u32],
+    apart: &[Apart],
+    applies: &dyn Fn(DataPropId, DataPropId) -> bool,
+    budget: u64,
+) -> Verdict {
     if needs.iter().any(|n| n.range.is_empty()) {
         return Verdict::Unsat;
+    }
+    let mut by_owners: HashMap<(u32, u32), Vec<DataPropId>> = HashMap::new();
+    for ap in apart {
+        by_owners.entry((ap.a, ap.b)).or_default().push(ap.prop);
+        if ap.a != ap.b {
+            by_owners.entry((ap.b, ap.a)).or_default().push(ap.prop);
+        }
     }
     let mut s = Search {
         needs,
         caps,
+        need_owner,
+        cap_owner,
+        apart: by_owners,
         applies,
         budget,
     };
@@ -91,6 +149,24 @@ impl Search<'_> {
         true
     }
 
+    /// Whether a class holding `members` and the need (owner `o`, property `p`) would give one
+    /// literal to two owners kept apart on a key property (or to an owner apart from itself).
+    fn breaks_apart(&self, members: &[(u32, DataPropId)], o: u32, p: DataPropId) -> bool {
+        if self.apart.is_empty() {
+            return false;
+        }
+        let both = |ds: &Vec<DataPropId>, q: DataPropId| {
+            ds.iter()
+                .any(|&d| (self.applies)(p, d) && (self.applies)(q, d))
+        };
+        if self.apart.get(&(o, o)).is_some_and(|ds| both(ds, p)) {
+            return true;
+        }
+        members
+            .iter()
+            .any(|&(w, q)| self.apart.get(&(o, w)).is_some_and(|ds| both(ds, q)))
+    }
+
     /// Places need `i` into an existing class or a new one.
     fn place(&mut self, i: usize, classes: &mut Vec<Class>) -> Verdict {
         if !self.tick() {
@@ -100,16 +176,23 @@ impl Search<'_> {
             return self.choose(0, 0, classes);
         }
         let need = &self.needs[i];
+        let owner = self.need_owner[i];
         let caps: Vec<bool> = self
             .caps
             .iter()
-            .map(|c| (self.applies)(need.prop, c.prop))
+            .zip(self.cap_owner)
+            .map(|(c, &o)| o == owner && (self.applies)(need.prop, c.prop))
             .collect();
+        if self.breaks_apart(&[], owner, need.prop) {
+            return Verdict::Unsat;
+        }
         let mut budget_hit = false;
         for k in 0..=classes.len() {
             let (range, saved) = if k < classes.len() {
                 let c = &classes[k];
-                if need.group.is_some_and(|g| c.groups.contains(&g)) {
+                if need.group.is_some_and(|g| c.groups.contains(&g))
+                    || self.breaks_apart(&c.members, owner, need.prop)
+                {
                     continue;
                 }
                 let r = c.range.intersect(&need.range);
@@ -127,10 +210,12 @@ impl Search<'_> {
                     *a |= b;
                 }
                 c.groups.extend(need.group);
+                c.members.push((owner, need.prop));
             } else {
                 classes.push(Class {
                     range,
                     groups: need.group.into_iter().collect(),
+                    members: vec![(owner, need.prop)],
                     caps: caps.clone(),
                 });
             }
@@ -144,6 +229,7 @@ impl Search<'_> {
                     let cl = &mut classes[k];
                     cl.range = r;
                     cl.caps = c;
+                    cl.members.pop();
                     if need.group.is_some() {
                         cl.groups.pop();
                     }
@@ -342,6 +428,53 @@ mod tests {
             .collect();
         let c1 = cap(1, &int_range("3", "9"));
         assert_eq!(check(&two, &[c1], &same, 10_000), Verdict::Unsat);
+    }
+
+    #[test]
+    fn apart_owners_take_different_values() {
+        // Hand-derived. Owner 0 needs a p-value in {1}, owner 1 one in [1..2]: kept apart on
+        // p, owner 1 takes 2. With [1..1] for both there is no model; with owner 1's value a
+        // q-value (q not under p) the two may share 1.
+        let one = literal("1", Some(&format!("{XSD}integer")), None).unwrap();
+        let needs = [need(0, &one, None), need(0, &int_range("1", "2"), None)];
+        let apart = [Apart {
+            a: 0,
+            b: 1,
+            prop: p(0),
+        }];
+        let joint = |needs: &[Need], apart: &[Apart]| {
+            check_joint(needs, &[0, 1], &[], &[], apart, &same, 10_000)
+        };
+        assert_eq!(joint(&needs, &apart), Verdict::Sat);
+        let tight = [need(0, &one, None), need(0, &one, None)];
+        assert_eq!(joint(&tight, &apart), Verdict::Unsat);
+        assert_eq!(joint(&tight, &[]), Verdict::Sat);
+        let other = [need(0, &one, None), need(1, &one, None)];
+        assert_eq!(joint(&other, &apart), Verdict::Sat);
+        // A cap counts only its owner's values: owner 0 with ≤1 p and two needs 1 and [1..2]
+        // merges them into 1; owner 1's value 2 is not counted against it.
+        let caps = [Cap {
+            prop: p(0),
+            range: DataRange::everything(),
+            max: 1,
+        }];
+        let three = [
+            need(0, &one, None),
+            need(0, &int_range("1", "2"), None),
+            need(0, &int_range("2", "2"), None),
+        ];
+        let v = check_joint(&three, &[0, 0, 1], &caps, &[0], &apart, &same, 10_000);
+        assert_eq!(v, Verdict::Sat);
+        // An owner apart from itself has no p-value.
+        let selfish = [Apart {
+            a: 0,
+            b: 0,
+            prop: p(0),
+        }];
+        assert_eq!(
+            check_joint(&needs[..1], &[0], &[], &[], &selfish, &same, 10_000),
+            Verdict::Unsat
+        );
     }
 
     #[test]

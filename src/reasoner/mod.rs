@@ -1,5 +1,6 @@
-//! The tableau reasoner for SHIQ with data ranges over the OWL 2 datatype map: consistency, satisfiability,
-//! subsumption, instance checking, classification and models.
+//! The tableau reasoner for SROIQ (with SHOIQ's nominal nodes and NN-rule) and data ranges
+//! over the OWL 2 datatype map: consistency, satisfiability, subsumption, instance
+//! checking, classification and models.
 //!
 //! Every answer is [`Answer::Yes`], [`Answer::No`] or [`Answer::Unknown`] with the limit that
 //! stopped the search; the reasoner never guesses.
@@ -26,6 +27,9 @@ use std::time::Instant;
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
 #[serde(rename_all = "snake_case")]
 pub enum Limit {
+    /// The work budget of a search for data values (a node's data number restrictions, or
+    /// the values of data keys across named individuals).
+    DataValues,
     /// The time limit (`--timeout`).
     Time,
     /// The node limit of the completion graph.
@@ -33,18 +37,20 @@ pub enum Limit {
     /// The user cancelled.
     Cancelled,
     /// A model was found, but a nominal's at-most restriction counts nodes that blocking
-    /// would copy; deciding it needs SHOIQ's NN-rule (Horrocks & Sattler 2007), which this
-    /// tableau lacks, so it does not claim satisfiability.
+    /// would copy and neither SHOIQ's NN-rule nor the ≤o-rule (Horrocks & Sattler 2007)
+    /// settled them; the tableau does not claim satisfiability then. A safety net: with
+    /// those rules in place no run is known to end here.
     NominalCounting,
 }
 
 impl std::fmt::Display for Limit {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
         f.write_str(match self {
+            Limit::DataValues => "work budget of the search for data values reached (data number restrictions or data keys over many values)",
             Limit::Time => "time limit reached",
             Limit::Nodes => "node limit of the completion graph reached",
             Limit::Cancelled => "cancelled",
-            Limit::NominalCounting => "a number restriction on an individual counts blocked parts of the model (nominals with number restrictions need SHOIQ's NN-rule, not implemented)",
+            Limit::NominalCounting => "a number restriction on an individual counts blocked parts of the model that the NN-rule did not settle",
         })
     }
 }

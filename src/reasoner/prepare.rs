@@ -76,6 +76,42 @@ pub struct Prepared {
     pub keys: Vec<(ConceptId, Vec<RoleId>, Vec<DataPropId>)>,
     /// Whether a TBox axiom has an at-most restriction or a functional property.
     pub tbox_at_most: bool,
+    /// Emptiness of intersections of data ranges, remembered across the tests of this
+    /// preparation.
+    pub empty_ranges: EmptyRanges,
+}
+
+/// Whether the intersection of a set of interned data ranges is empty, by the sorted set of
+/// their ids. The exact value spaces (string automata, rationals) make one intersection cost
+/// far more than a look-up, and the same sets recur in every test of a classification. Sound
+/// because an id names one range for the life of the store the preparation was built from.
+#[derive(Debug, Default)]
+pub struct EmptyRanges(std::sync::Mutex<std::collections::HashMap<Vec<DataRangeId>, bool>>);
+
+impl EmptyRanges {
+    /// The remembered answer for a sorted, deduplicated set of ids.
+    pub fn get(&self, ids: &[DataRangeId]) -> Option<bool> {
+        self.0
+            .lock()
+            .unwrap_or_else(|e| e.into_inner())
+            .get(ids)
+            .copied()
+    }
+
+    /// Remembers an answer.
+    pub fn put(&self, ids: Vec<DataRangeId>, empty: bool) {
+        self.0
+            .lock()
+            .unwrap_or_else(|e| e.into_inner())
+            .insert(ids, empty);
+    }
+}
+
+impl Clone for EmptyRanges {
+    fn clone(&self) -> Self {
+        let map = self.0.lock().unwrap_or_else(|e| e.into_inner()).clone();
+        EmptyRanges(std::sync::Mutex::new(map))
+    }
 }
 
 impl Prepared {
@@ -310,18 +346,10 @@ pub fn prepare(
     p.tbox_nominals = tbox_nominals;
     p.tbox_at_most = has_at_most;
     for (a, src) in &axioms {
-        let Axiom::HasKey(_, roles, data) = a else {
+        let Axiom::HasKey(_, roles, _) = a else {
             continue;
         };
         let text = src.map(|s| kb.sources[s].text.clone());
-        if !data.is_empty() {
-            return Err(Refusal {
-                axiom: text,
-                reason:
-                    "keys on data properties are not supported yet (keys on object properties are)"
-                        .into(),
-            });
-        }
         if roles.iter().any(|r| !p.simple[r.index()]) {
             return Err(Refusal {
                 axiom: text,

@@ -1,5 +1,11 @@
 //! The completion-graph tableau for SHIQ (Horrocks, Sattler & Tobies 1999/2000) with
-//! data ranges and data number restrictions, ABox root nodes and ObjectHasValue fillers.
+//! data ranges and data number restrictions, ABox root nodes and ObjectHasValue fillers,
+//! extended to nominals as in SHOIQ (Horrocks & Sattler, "A Tableau Decision Procedure for
+//! SHOIQ", JAR 2007): root nodes are the nominal nodes (individuals, the query's root and
+//! the nodes the NN-rule makes) and are never blocked; the o-rule merges a node holding
+//! {a} into a's root; on a nominal node, the NN-rule and the ≤o-rule merge blockable
+//! neighbours counted by an at-most restriction into nominal nodes, pruning their
+//! successors, before any generating rule runs.
 //!
 //! One solver state, declared parts: the completion [`Graph`] (copied at branching points,
 //! which is the trail), the branching stack, the dependency table and statistics.
@@ -18,6 +24,8 @@ use crate::kb::{
 };
 use std::collections::{HashMap, VecDeque};
 use std::rc::Rc;
+
+mod keys;
 
 type NodeId = usize;
 
@@ -160,6 +168,15 @@ pub struct Graph {
     /// No node before this one has an ∃/≥ demand left unmet: the generating scan starts
     /// here. Reset to 0 when a merge or prune may have removed a node that met a demand.
     gen_from: NodeId,
+    /// Whether a tree node may have met a root other than its parent (an edge to a nominal,
+    /// a merge into a root): only then can the NN-rule apply, so SHIQ runs skip its test.
+    nominal_edges: bool,
+    /// Data keys: pairs of named nodes kept apart on a key's data property (their values of
+    /// it differ), with the dependency of that choice; see `keys.rs`.
+    key_apart: Vec<(NodeId, NodeId, DataPropId, Dep)>,
+    /// When the values of the `key_apart` nodes were last found to exist together: the
+    /// latest change time of those nodes then, and the pairs (after merges) then.
+    key_checked: Option<(u64, keys::ApartPairs)>,
 }
 
 #[derive(Clone, Debug)]
@@ -170,6 +187,20 @@ enum Choice {
     },
     Merge {
         options: Vec<(NodeId, NodeId)>,
+    },
+    /// SHOIQ's NN-rule at the nominal node `node` for ≤`max` `role`.`filler`: alternative i
+    /// guesses that the node has exactly i + 1 such neighbours.
+    Nominals {
+        node: NodeId,
+        role: RoleId,
+        filler: ConceptId,
+        max: u32,
+    },
+    /// A data key's pair: apart on one of `props`, else (the last option) merged.
+    KeyApart {
+        x: NodeId,
+        y: NodeId,
+        props: Vec<DataPropId>,
     },
 }
 
@@ -832,10 +863,10 @@ impl<'a> Tableau<'a> {
         for &(_, _, d) in &alls {
             all_dep = self.deps.union(all_dep, d);
         }
-        // The range each value must lie in.
-        let eff: Vec<DataRange> = somes
+        // The ranges each value must lie in, as the ids whose intersection is its range.
+        let eff: Vec<Vec<DataRangeId>> = somes
             .iter()
-            .map(|&(dp, r, _)| self.effective_range(dp, r, &alls))
+            .map(|&(dp, r, _)| self.effective_range_ids(dp, r, &alls))
             .collect();
         // Values of properties under a common functional property coincide.
         let n = somes.len();
@@ -859,24 +890,59 @@ impl<'a> Tableau<'a> {
             }
         }
         for g in 0..n {
-            let mut acc: Option<DataRange> = None;
+            let mut ids: Vec<DataRangeId> = Vec::new();
             let mut d = all_dep;
             for i in 0..n {
                 if root(&mut group, i) == g {
-                    acc = Some(match acc {
-                        None => eff[i].clone(),
-                        Some(a) => a.intersect(&eff[i]),
-                    });
+                    ids.extend_from_slice(&eff[i]);
                     d = self.deps.union(d, somes[i].2);
                 }
             }
-            if let Some(a) = acc
-                && a.is_empty()
-            {
+            if !ids.is_empty() && self.empty_intersection(ids) {
                 self.set_clash(d);
                 return;
             }
         }
+    }
+
+    /// The ranges whose intersection a value of `dp` must lie in at a node: `r`, the node's
+    /// ∀ restrictions on `dp`'s super-properties and their range axioms.
+    fn effective_range_ids(
+        &self,
+        dp: DataPropId,
+        r: DataRangeId,
+        alls: &[(DataPropId, DataRangeId, Dep)],
+    ) -> Vec<DataRangeId> {
+        let p = self.prep;
+        let mut ids = vec![r];
+        for &(q, e, _) in alls {
+            if p.data_supers[dp.index()].contains(&q) {
+                ids.push(e);
+            }
+        }
+        for q in &p.data_supers[dp.index()] {
+            ids.extend_from_slice(&p.data_ranges[q.index()]);
+        }
+        ids
+    }
+
+    /// Whether the ranges have no value in common, remembered in the preparation.
+    fn empty_intersection(&self, mut ids: Vec<DataRangeId>) -> bool {
+        ids.sort_unstable();
+        ids.dedup();
+        if let Some(e) = self.prep.empty_ranges.get(&ids) {
+            return e;
+        }
+        let mut acc = self.ranges.get(ids[0]).clone();
+        for &id in &ids[1..] {
+            if acc.is_empty() {
+                break;
+            }
+            acc = acc.intersect(self.ranges.get(id));
+        }
+        let e = acc.is_empty();
+        self.prep.empty_ranges.put(ids, e);
+        e
     }
 
     /// The range a value of `dp` must lie in at a node: `r` cut by the node's ∀ restrictions
@@ -907,10 +973,28 @@ impl<'a> Tableau<'a> {
     /// concept of the node (coarse, but sound for backjumping).
     fn check_data_counts(&mut self, x: NodeId, alls: &[(DataPropId, DataRangeId, Dep)]) {
         let p = self.prep;
+        let (needs, caps, dep) = self.data_problem(x, alls, 0);
+        let applies = |a: DataPropId, b: DataPropId| p.data_supers[a.index()].contains(&b);
+        match datavalues::check(&needs, &caps, &applies, DATA_BUDGET) {
+            datavalues::Verdict::Sat => {}
+            datavalues::Verdict::Unsat => self.set_clash(dep),
+            datavalues::Verdict::Budget => self.stopped = Some(Limit::DataValues),
+        }
+    }
+
+    /// The values node x needs and the caps on them (functional properties as ≤1 q.⊤), as
+    /// [`datavalues`] takes them, with the dependency of every data concept of the node;
+    /// `group` numbers the node's ≥n groups from there.
+    fn data_problem(
+        &mut self,
+        x: NodeId,
+        alls: &[(DataPropId, DataRangeId, Dep)],
+        mut group: u32,
+    ) -> (Vec<datavalues::Need>, Vec<datavalues::Cap>, Dep) {
+        let p = self.prep;
         let mut needs = Vec::new();
         let mut caps = Vec::new();
         let mut dep = Dep::EMPTY;
-        let mut group = 0u32;
         let label: Vec<ConceptId> = self.g.nodes[x].label.to_vec();
         for c in label {
             let (need_n, dp, r, grouped) = match *self.concepts.get(c) {
@@ -957,12 +1041,7 @@ impl<'a> Tableau<'a> {
                 max: 1,
             });
         }
-        let applies = |a: DataPropId, b: DataPropId| p.data_supers[a.index()].contains(&b);
-        match datavalues::check(&needs, &caps, &applies, DATA_BUDGET) {
-            datavalues::Verdict::Sat => {}
-            datavalues::Verdict::Unsat => self.set_clash(dep),
-            datavalues::Verdict::Budget => self.stopped = Some(Limit::Nodes),
-        }
+        (needs, caps, dep)
     }
 
     /// Which nodes are blocked, directly or through a blocked ancestor. Pairwise anywhere
@@ -1160,6 +1239,14 @@ impl<'a> Tableau<'a> {
                         }
                     }
                 }
+                if self.g.nominal_edges
+                    && n > 0
+                    && self.g.nodes[x].is_root()
+                    && let Some((w, wd)) = self.blockable_predecessor(x, &nbrs, f)
+                {
+                    self.nominal_at_most(x, n, r, f, (w, wd), dc);
+                    return true;
+                }
                 let with: Vec<(NodeId, Dep)> = nbrs
                     .iter()
                     .filter_map(|&(y, ed)| self.has(y, f).map(|fd| (y, self.deps_union(ed, fd))))
@@ -1271,6 +1358,107 @@ impl<'a> Tableau<'a> {
         false
     }
 
+    /// A blockable r-neighbour w of the nominal node x carrying `f`, with x a successor of
+    /// w (w is not x's child), and the dependency of the edge and of `f` at w: the
+    /// neighbour that SHOIQ's NN-rule and ≤o-rule (Horrocks & Sattler 2007, Fig. 3) are
+    /// about, since unravelling may copy w while x stays one element.
+    fn blockable_predecessor(
+        &mut self,
+        x: NodeId,
+        nbrs: &[(NodeId, Dep)],
+        f: ConceptId,
+    ) -> Option<(NodeId, Dep)> {
+        for &(w, ed) in nbrs {
+            let node = &self.g.nodes[w];
+            if node.is_root() || node.parent == Some(x) {
+                continue;
+            }
+            if let Some(fd) = self.has(w, f) {
+                return Some((w, self.deps.union(ed, fd)));
+            }
+        }
+        None
+    }
+
+    /// The NN-rule and the ≤o-rule of Horrocks & Sattler, "A Tableau Decision Procedure
+    /// for SHOIQ" (JAR 2007, Fig. 3), for ≤n r.f at the nominal node x (dependency `dc`) and
+    /// its blockable predecessor w with f (dependency `wd`).
+    ///
+    /// When x already holds some ≤m r.f (m ≤ n) together with m pairwise distinct nominal
+    /// r-neighbours carrying f, every other such neighbour is one of them in any model, so
+    /// w is merged into one of those nominal nodes (branching over which; merging into a
+    /// nominal node prunes w's blockable successors). Otherwise the NN-rule guesses the
+    /// exact number m of r-neighbours with f (1 ≤ m ≤ n, at least w's element exists) and
+    /// makes them m new nominal nodes: they are never blocked, so unravelling cannot copy
+    /// them past x's restriction.
+    fn nominal_at_most(
+        &mut self,
+        x: NodeId,
+        n: u32,
+        r: RoleId,
+        f: ConceptId,
+        (w, wd): (NodeId, Dep),
+        dc: Dep,
+    ) {
+        let mut noms: Vec<(NodeId, Dep)> = Vec::new();
+        for (z, ed) in self.r_neighbours(x, r) {
+            if self.g.nodes[z].is_root()
+                && let Some(fd) = self.has(z, f)
+            {
+                noms.push((z, self.deps.union(ed, fd)));
+            }
+        }
+        for c in self.g.nodes[x].at_mosts.clone() {
+            let Concept::AtMost(m, r2, f2) = *self.concepts.get(c) else {
+                continue;
+            };
+            if r2 != r || f2 != f || m == 0 || m > n {
+                continue;
+            }
+            let ids: Vec<NodeId> = noms.iter().map(|&(z, _)| z).collect();
+            let Some(clique) = self.find_clique(&ids, m as usize) else {
+                continue;
+            };
+            // The ≤o-rule: merge w into one of the m distinct nominal neighbours.
+            let mut base = self.g.nodes[x].deps[&c];
+            base = self.deps.union(base, wd);
+            for (i, &z) in clique.iter().enumerate() {
+                let zd = noms.iter().find(|e| e.0 == z).map_or(Dep::EMPTY, |e| e.1);
+                base = self.deps.union(base, zd);
+                for &z2 in &clique[..i] {
+                    let d = self.distinct(z, z2).expect("a clique is pairwise distinct");
+                    base = self.deps.union(base, d);
+                }
+            }
+            let mut options = Vec::new();
+            for &z in &clique {
+                match self.distinct(w, z) {
+                    Some(d) => base = self.deps.union(base, d),
+                    None => options.push((w, z)),
+                }
+            }
+            if options.is_empty() {
+                self.set_clash(base);
+            } else {
+                self.stats.branches += 1;
+                self.branch(Choice::Merge { options }, base);
+            }
+            return;
+        }
+        // The NN-rule.
+        let base = self.deps.union(dc, wd);
+        self.stats.branches += 1;
+        self.branch(
+            Choice::Nominals {
+                node: x,
+                role: r,
+                filler: f,
+                max: n,
+            },
+            base,
+        );
+    }
+
     fn deps_union(&mut self, a: Dep, b: Dep) -> Dep {
         self.deps.union(a, b)
     }
@@ -1282,10 +1470,14 @@ impl<'a> Tableau<'a> {
         }
     }
 
-    /// Orders a merge pair (from, into): into a root, else into x's predecessor, else into the
-    /// older node.
+    /// Orders a merge pair (from, into): into a nominal (root) node, so that a blockable
+    /// node never absorbs a nominal one (Horrocks & Sattler 2007, the ≤-rule); between two
+    /// roots into a named one; else into x's predecessor, else into the older node.
     fn merge_order(&self, x: NodeId, y: NodeId, z: NodeId) -> (NodeId, NodeId) {
         let (ny, nz) = (&self.g.nodes[y], &self.g.nodes[z]);
+        if ny.is_root() != nz.is_root() {
+            return if ny.is_root() { (z, y) } else { (y, z) };
+        }
         if !ny.names.is_empty() && nz.names.is_empty() {
             return (z, y);
         }
@@ -1327,6 +1519,8 @@ impl<'a> Tableau<'a> {
         let n = match &choice {
             Choice::Add { options, .. } => options.len(),
             Choice::Merge { options } => options.len(),
+            Choice::Nominals { max, .. } => *max as usize,
+            Choice::KeyApart { props, .. } => props.len() + 1,
         };
         let last = i + 1 == n;
         let dep = if last {
@@ -1358,6 +1552,32 @@ impl<'a> Tableau<'a> {
                         self.merge(y, z, dep);
                     }
                 }
+            }
+            Choice::Nominals {
+                node, role, filler, ..
+            } => self.new_nominals(node, role, filler, i as u32 + 1, dep),
+            Choice::KeyApart { x, y, props } => self.apply_key_alternative(x, y, &props, i, dep),
+        }
+    }
+
+    /// The NN-rule's action (Horrocks & Sattler 2007, Fig. 3): ≤m r.f at the nominal node
+    /// x and m new nominal nodes (roots without a name: never blocked, never pruned) as
+    /// pairwise distinct r-neighbours of x with f.
+    fn new_nominals(&mut self, x: NodeId, r: RoleId, f: ConceptId, m: u32, dep: Dep) {
+        let am = self.concepts.at_most(m, r, f);
+        self.add(x, am, dep);
+        let u = self.prep.universal;
+        let mut news = Vec::with_capacity(m as usize);
+        for _ in 0..m {
+            let y = self.new_node(None);
+            self.add_edge(x, y, r, dep);
+            self.add(y, f, dep);
+            self.add(y, u, Dep::EMPTY);
+            news.push(y);
+        }
+        for i in 0..news.len() {
+            for j in i + 1..news.len() {
+                self.g.ineq.push((news[i], news[j], dep));
             }
         }
     }
@@ -1393,6 +1613,9 @@ impl<'a> Tableau<'a> {
     /// Merges node y into z (the ≤-rule's Merge, Horrocks, Sattler & Tobies 2000).
     fn merge(&mut self, y: NodeId, z: NodeId, dep: Dep) {
         self.g.gen_from = 0;
+        if self.g.nodes[z].is_root() {
+            self.g.nominal_edges = true;
+        }
         let label: Vec<(ConceptId, Dep)> = self.g.nodes[y]
             .label
             .iter()
@@ -1552,6 +1775,7 @@ impl<'a> Tableau<'a> {
                         did = true;
                         if let Concept::Nominal(a) = *self.concepts.get(f) {
                             let t = self.ind(a);
+                            self.g.nominal_edges = true;
                             self.add_edge(x, t, r, dc);
                         } else {
                             self.successor(x, r, f, dc);
@@ -1592,8 +1816,13 @@ impl<'a> Tableau<'a> {
         if n <= 1 {
             return cands.len() >= n;
         }
+        self.find_clique(cands, n).is_some()
+    }
+
+    /// `n` pairwise distinct candidates, if there are (backtracking clique search).
+    fn find_clique(&self, cands: &[NodeId], n: usize) -> Option<Vec<NodeId>> {
         if cands.len() < n {
-            return false;
+            return None;
         }
         fn grow(
             t: &Tableau,
@@ -1620,7 +1849,8 @@ impl<'a> Tableau<'a> {
             }
             false
         }
-        grow(self, cands, 0, &mut Vec::new(), n)
+        let mut chosen = Vec::new();
+        grow(self, cands, 0, &mut chosen, n).then_some(chosen)
     }
 
     fn successor(&mut self, x: NodeId, r: RoleId, f: ConceptId, dep: Dep) -> NodeId {
@@ -1693,90 +1923,13 @@ impl<'a> Tableau<'a> {
         }
     }
 
-    /// The key rule (DL-safe keys, OWL 2 Direct Semantics §2.3.5; Motik, Sattler & Studer
-    /// 2005): two named individuals in a key's class that share a named filler for each of its
-    /// object properties are the same. A key's class that is not a named class is decided on
-    /// each named individual first (a choose rule), since the model read off the graph may put
-    /// an individual in it without the label saying so. Returns whether a rule applied.
-    fn apply_keys(&mut self) -> bool {
-        let prep = self.prep;
-        let named: Vec<NodeId> = (0..self.g.nodes.len())
-            .filter(|&x| self.g.nodes[x].active && !self.g.nodes[x].names.is_empty())
-            .collect();
-        for (c, roles, _) in &prep.keys {
-            let c = *c;
-            if !matches!(self.concepts.get(c), Concept::Atom(_)) {
-                let nc = self.concepts.not(c);
-                for &x in &named {
-                    if self.has(x, c).is_none() && self.has(x, nc).is_none() {
-                        self.stats.branches += 1;
-                        self.branch(
-                            Choice::Add {
-                                node: x,
-                                options: vec![c, nc],
-                            },
-                            Dep::EMPTY,
-                        );
-                        return true;
-                    }
-                }
-            }
-            let members: Vec<(NodeId, Dep)> = named
-                .iter()
-                .filter_map(|&x| self.has(x, c).map(|d| (x, d)))
-                .collect();
-            for i in 0..members.len() {
-                for j in i + 1..members.len() {
-                    let ((x, dx), (y, dy)) = (members[i], members[j]);
-                    let mut dep = self.deps.union(dx, dy);
-                    let mut all = true;
-                    for &r in roles {
-                        match self.shared_named_filler(x, y, r) {
-                            Some(d) => dep = self.deps.union(dep, d),
-                            None => {
-                                all = false;
-                                break;
-                            }
-                        }
-                    }
-                    if !all {
-                        continue;
-                    }
-                    if let Some(d) = self.distinct(x, y) {
-                        let dd = self.deps.union(d, dep);
-                        self.set_clash(dd);
-                    } else {
-                        self.stats.merges += 1;
-                        let (from, into) = if x < y { (y, x) } else { (x, y) };
-                        self.merge(from, into, dep);
-                    }
-                    return true;
-                }
-            }
-        }
-        false
-    }
-
-    /// A named node that is an r-neighbour of both x and y, with the edges' dependencies.
-    fn shared_named_filler(&mut self, x: NodeId, y: NodeId, r: RoleId) -> Option<Dep> {
-        let xs = self.r_neighbours(x, r);
-        let ys = self.r_neighbours(y, r);
-        for (z, dz) in xs {
-            if self.g.nodes[z].names.is_empty() {
-                continue;
-            }
-            if let Some(&(_, dz2)) = ys.iter().find(|&&(w, _)| w == z) {
-                return Some(self.deps.union(dz, dz2));
-            }
-        }
-        None
-    }
-
     /// Whether the model read off the finished graph could break a root node's at-most
-    /// restriction. Blocking unravels the graph: each blocked node gets copies of its
-    /// blocker's successors, and a copied node with an edge to a root node (an individual or
-    /// a merged nominal) adds a neighbour there that the ≤-rule never counted. SHOIQ's NN-rule
-    /// (Horrocks & Sattler 2007) prevents this; without it, such a graph proves nothing.
+    /// restriction. Blocking unravels the graph: each blocked node stands for a copy of its
+    /// blocker and of the blocker's successors, and a copied node with an edge to a root
+    /// node (an individual or a nominal) that is not its parent adds a neighbour there that
+    /// the ≤-rule never counted. With nominals in the TBox the NN-rule and the ≤o-rule
+    /// ([`Tableau::nominal_at_most`]) leave no such neighbour in a finished graph, so this
+    /// is a safety net: it answers "limit reached" rather than claim a model it cannot back.
     fn nominal_counting_at_risk(&self) -> bool {
         if self.blockers.is_empty() {
             return false;
@@ -1803,7 +1956,8 @@ impl<'a> Tableau<'a> {
                     continue;
                 };
                 for (w, r, _) in self.neighbours(o) {
-                    if copied[w] && self.prep.is_sub(r, s) && self.has(w, f).is_some() {
+                    let copy = copied[w] || (is_blocker[w] && self.g.nodes[w].parent != Some(o));
+                    if copy && self.prep.is_sub(r, s) && self.has(w, f).is_some() {
                         return true;
                     }
                 }
@@ -1870,3 +2024,7 @@ fn mix(x: u64) -> u64 {
     z = (z ^ (z >> 27)).wrapping_mul(0x94D0_49BB_1331_11EB);
     z ^ (z >> 31)
 }
+
+#[cfg(test)]
+#[path = "nn_rule_tests.rs"]
+mod nn_rule_tests;

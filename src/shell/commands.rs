@@ -519,10 +519,7 @@ fn load_text(
                 .filter_map(|w| user_text.find(w))
                 .min()
                 .unwrap_or(0);
-            return Err(l.err(
-                format!("unsupported construct: {reason}; rewrite it within SHIQ"),
-                off + at,
-            ));
+            return Err(l.err(format!("unsupported construct: {reason}"), off + at));
         }
         Err(e) => return Err(l.err(e.to_string(), off)),
     };
@@ -1175,10 +1172,7 @@ fn add(s: &mut Session, l: &Line) -> Result<String, ShellError> {
     }
     if let Err(r) = Reasoner::new(&scratch) {
         return Err(l.err(
-            format!(
-                "not added: unsupported construct: {}; rewrite it within SHIQ",
-                r.reason
-            ),
+            format!("not added: unsupported construct: {}", r.reason),
             l.off,
         ));
     }
@@ -1314,15 +1308,8 @@ fn ask(s: &mut Session, l: &Line) -> Result<String, ShellError> {
     }
     let (kb, n, ts, is_class) = question(s, l, l.arg, l.off)?;
     let mask: Vec<bool> = (0..kb.axioms.len()).map(|i| i < n).collect();
-    let mut r = Reasoner::with_axioms(&kb, Some(&mask), &[]).map_err(|r| {
-        l.err(
-            format!(
-                "unsupported construct: {}; rewrite it within SHIQ",
-                r.reason
-            ),
-            l.off,
-        )
-    })?;
+    let mut r = Reasoner::with_axioms(&kb, Some(&mask), &[])
+        .map_err(|r| l.err(format!("unsupported construct: {}", r.reason), l.off))?;
     r.limits = s.limits();
     let a = all_entailed(&mut r, &ts);
     Ok(if is_class {

@@ -363,10 +363,7 @@ impl Parser<'_> {
                 };
                 Ok(format!("{f}({n} {p} {filler})"))
             }
-            "Self" => err(
-                at,
-                "unsupported construct: self restrictions (`Self`) are outside SHIQ; rewrite the expression",
-            ),
+            "Self" => Ok(format!("ObjectHasSelf({p})")),
             _ => err(at, "expected some, only, value, min, max or exactly"),
         }
     }
@@ -762,9 +759,16 @@ mod tests {
         assert_eq!(e.offset, 6);
         let e = parse_manchester("A and (B or A", &ix, false).unwrap_err();
         assert_eq!(e.offset, 13);
-        let e = parse_manchester("r Self", &ix, false).unwrap_err();
-        assert_eq!(e.offset, 2);
-        assert!(e.message.contains("unsupported"));
+    }
+
+    #[test]
+    fn self_restriction() {
+        // Manchester syntax (OWL 2 W3C Note): `r Self` is ObjectHasSelf(r).
+        let ix = index();
+        assert_eq!(
+            parse_manchester("r Self", &ix, false).unwrap(),
+            Statement::Class("ObjectHasSelf(<http://ex.org/t#r>)".into())
+        );
     }
 
     #[test]

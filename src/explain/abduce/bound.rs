@@ -12,6 +12,8 @@ use std::time::Instant;
 #[derive(Clone, Copy, Debug, PartialEq, Eq, Serialize)]
 #[serde(rename_all = "snake_case")]
 pub enum SearchLimit {
+    /// The work budget of a search for data values.
+    DataValues,
     /// The time limit (`--timeout`).
     Time,
     /// The completion-graph node limit of one reasoner test (`--max-graph-nodes`).
@@ -30,6 +32,7 @@ pub enum SearchLimit {
 impl From<Limit> for SearchLimit {
     fn from(l: Limit) -> Self {
         match l {
+            Limit::DataValues => SearchLimit::DataValues,
             Limit::Time => SearchLimit::Time,
             Limit::Nodes => SearchLimit::GraphNodes,
             Limit::Cancelled => SearchLimit::Cancelled,
@@ -42,6 +45,7 @@ impl SearchLimit {
     /// The command-line option that raises this limit, if there is one.
     pub fn option(self) -> Option<&'static str> {
         match self {
+            SearchLimit::DataValues => None,
             SearchLimit::Time => Some("--timeout"),
             SearchLimit::GraphNodes => Some("--max-graph-nodes"),
             SearchLimit::Cancelled => None,
@@ -55,6 +59,7 @@ impl SearchLimit {
 impl std::fmt::Display for SearchLimit {
     fn fmt(&self, f: &mut std::fmt::Formatter<'_>) -> std::fmt::Result {
         f.write_str(match self {
+            SearchLimit::DataValues => return Limit::DataValues.fmt(f),
             SearchLimit::Time => "time limit reached",
             SearchLimit::GraphNodes => "node limit of the completion graph reached in one test",
             SearchLimit::Cancelled => "cancelled",

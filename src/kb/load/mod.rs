@@ -11,7 +11,7 @@ mod rdf_lists;
 pub mod save;
 pub mod syntax;
 
-use super::owl::{Converter, OWL, XSD};
+use super::owl::{Converter, OWL, XSD, define_datatypes};
 use super::{KbError, KnowledgeBase};
 use horned_owl::model::Component;
 use imports::{Naming, Resolver, canonical, find_cycle, naming};
@@ -110,6 +110,11 @@ pub fn load_into(
             _ => {}
         }
     }
+    let texts: Vec<(String, &[_])> = docs
+        .iter()
+        .map(|(path, parsed)| (path.display().to_string(), parsed.components.as_slice()))
+        .collect();
+    define_datatypes(kb, &texts, opts.lenient)?;
     let mut first_seen: Vec<(String, bool, usize, usize, usize)> = Vec::new();
     for (path, parsed) in docs {
         let file = path.display().to_string();
@@ -326,6 +331,7 @@ pub fn load_axioms_text(
             reason: locate(&reason, &body, shift),
         })
     })?;
+    define_datatypes(kb, &[(name.to_string(), comps.as_slice())], false)?;
     let start = kb.axioms.len();
     let mut conv = Converter {
         kb,

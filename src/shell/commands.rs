@@ -63,7 +63,7 @@ pub const COMMANDS: &[CommandHelp] = &[
     CommandHelp {
         name: "show",
         usage: "show NAME",
-        summary: "A class (annotations, told and inferred super- and subclasses, equivalents, disjoints, usage), an individual (types, relations, degrees) or a property.",
+        summary: "A class answered question by question (what it is, defined as, what falls under it, never together with, where it is used; · stated, ∴ follows), an individual (types, relations, degrees) or a property.",
         example: "show Liver",
     },
     CommandHelp {
@@ -839,6 +839,35 @@ fn names_list(v: Vec<String>) -> String {
     }
 }
 
+/// One question of `show CLASS`: the stated answers (`·`), then those that only follow (`∴`),
+/// a stated name not repeated as following.
+fn answer(out: &mut String, question: &str, stated: &[String], follows: &[String]) {
+    let follows: Vec<&String> = follows.iter().filter(|f| !stated.contains(f)).collect();
+    if stated.is_empty() && follows.is_empty() {
+        let _ = writeln!(out, "  {question}: nothing known");
+        return;
+    }
+    let _ = writeln!(out, "  {question}:");
+    for x in stated {
+        let _ = writeln!(out, "    · {x}");
+    }
+    // What follows can be long (every class disjoint by inheritance): packed into lines.
+    let mut line = String::new();
+    for x in follows {
+        if !line.is_empty() && line.len() + x.len() > 84 {
+            let _ = writeln!(out, "    ∴ {line}");
+            line.clear();
+        }
+        if !line.is_empty() {
+            line.push_str(", ");
+        }
+        line.push_str(x);
+    }
+    if !line.is_empty() {
+        let _ = writeln!(out, "    ∴ {line}");
+    }
+}
+
 fn show(s: &mut Session, l: &Line) -> Result<String, ShellError> {
     if l.arg.is_empty() {
         return Err(l.err("give a name: show NAME", l.off));
@@ -894,7 +923,7 @@ fn show(s: &mut Session, l: &Line) -> Result<String, ShellError> {
         }
     }
     used.sort();
-    let _ = writeln!(out, "  usage: {} axioms", used.len());
+    let _ = writeln!(out, "  where it is used ({} axioms):", used.len());
     for u in used.iter().take(20) {
         let _ = writeln!(out, "    {u}");
     }
@@ -976,29 +1005,23 @@ fn show_class(s: &mut Session, iri: &str, out: &mut String) -> Result<(), ShellE
         n
     };
     let unsat = cl.unsatisfiable.contains(&c);
+    // Our layout: the questions a knowledge engineer asks of a class, each answered by
+    // what the ontology states (`·`) and what only follows by reasoning (`∴`).
+    let _ = writeln!(out, "  (· stated in the ontology   ∴ follows by reasoning)");
     if unsat {
-        let _ = writeln!(out, "  UNSATISFIABLE (equivalent to owl:Nothing)");
+        let _ = writeln!(
+            out,
+            "  it can have no members: the class is unsatisfiable (the same as owl:Nothing)"
+        );
     }
-    let _ = writeln!(out, "  told superclasses: {}", names_list(told_sup));
-    let _ = writeln!(
-        out,
-        "  inferred superclasses: {}",
-        names_list(sorted(
-            sups.iter().copied().filter(|x| !eq.contains(x)).collect()
-        ))
-    );
-    let _ = writeln!(out, "  told subclasses: {}", names_list(told_sub));
-    let _ = writeln!(
-        out,
-        "  inferred subclasses: {}",
-        names_list(sorted(
-            subs.iter().copied().filter(|x| !eq.contains(x)).collect()
-        ))
-    );
-    let _ = writeln!(out, "  told equivalents: {}", names_list(told_eq));
-    let _ = writeln!(out, "  inferred equivalents: {}", names_list(sorted(eq)));
-    let _ = writeln!(out, "  told disjoints: {}", names_list(told_dis));
+    let inferred_sups = sorted(sups.iter().copied().filter(|x| !eq.contains(x)).collect());
+    let inferred_subs = sorted(subs.iter().copied().filter(|x| !eq.contains(x)).collect());
+    answer(out, "what it is", &told_sup, &inferred_sups);
+    answer(out, "defined as / same as", &told_eq, &sorted(eq));
+    answer(out, "what falls under it", &told_sub, &inferred_subs);
     // Inferred disjoints: satisfiable named classes D with C ⊑ ¬D (one test each).
+    let mut never: Vec<String> = Vec::new();
+    let mut skipped = false;
     if cl.consistent && !unsat {
         let classes = kb.signature_classes.clone();
         if classes.len() <= 2000 {
@@ -1018,13 +1041,17 @@ fn show_class(s: &mut Session, iri: &str, out: &mut String) -> Result<(), ShellE
                     }
                 }
             }
-            let _ = writeln!(out, "  inferred disjoints: {}", names_list(sorted(dis)));
+            never = sorted(dis);
         } else {
-            let _ = writeln!(
-                out,
-                "  inferred disjoints: (skipped: more than 2000 classes)"
-            );
+            skipped = true;
         }
+    }
+    answer(out, "never together with", &told_dis, &never);
+    if skipped {
+        let _ = writeln!(
+            out,
+            "    (what follows was not computed: more than 2000 classes)"
+        );
     }
     Ok(())
 }

@@ -14,10 +14,11 @@ use std::hint::black_box;
 use std::time::{Duration, Instant};
 use wherefore::spatial::affine::Affine;
 use wherefore::spatial::edt::edt;
-use wherefore::spatial::landscape::{Direction, FastLandscape};
+use wherefore::spatial::landscape::FastLandscape;
 use wherefore::spatial::mask::Mask;
 use wherefore::spatial::measure::{MeasureOptions, measure};
 use wherefore::spatial::phantom::Phantom;
+use wherefore::spatial::structuring::Direction;
 use wherefore::spatial::table::parse_table;
 
 const N: usize = 256;

@@ -6,14 +6,13 @@ use std::path::Path;
 use wherefore::spatial::affine::{Affine, AffineSource};
 use wherefore::spatial::config::MeasureConfig;
 use wherefore::spatial::edt::{edt, edt_squared, edt_squared_brute};
-use wherefore::spatial::landscape::{
-    Aggregate, Direction, FastLandscape, LandscapeMode, exact_degree, structuring_element,
-};
+use wherefore::spatial::landscape::{Aggregate, FastLandscape, LandscapeMode};
 use wherefore::spatial::mask::{Adjacency, Mask};
 use wherefore::spatial::measure::{MeasureOptions, measure};
 use wherefore::spatial::nifti_io::{RawHeader, dtype, encode_labels, read_label_map, write_nifti};
 use wherefore::spatial::phantom::{Phantom, oblique_affine};
 use wherefore::spatial::rcc8::{Rcc8, compose, relate};
+use wherefore::spatial::structuring::{Direction, exact_degree, structuring_element};
 use wherefore::spatial::table::parse_table;
 
 fn fixture(name: &str) -> std::path::PathBuf {
@@ -648,7 +647,7 @@ fn data_after_a_larger_vox_offset_and_a_table_with_a_bom_are_read() {
 fn fast_arccos_stays_within_its_published_error() {
     // Abramowitz & Stegun 1964, formula 4.4.46: |error| ≤ 2·10⁻⁸ on [0, 1]; checked against
     // the standard library's acos over [−1, 1].
-    use wherefore::spatial::landscape::acos_fast;
+    use wherefore::spatial::structuring::acos_fast;
     let worst = (0..=20_000)
         .map(|i| -1.0 + i as f64 / 10_000.0)
         .map(|x| (acos_fast(x) - x.acos()).abs())

@@ -4,13 +4,12 @@ use super::SpatialError;
 use super::affine::round_to;
 use super::config::MeasureConfig;
 use super::edt::{edt_squared, edt_squared_into};
-use super::landscape::{
-    CellLayout, Direction, FastLandscape, LandscapeMode, cell_count, exact_degree,
-};
+use super::landscape::{CellLayout, FastLandscape, LandscapeMode, cell_count};
 use super::mask::{Adjacency, Mask};
 use super::nifti_io::LabelMap;
 use super::rcc8::{Rcc8, relate_counted};
 use super::region::{Region, RegionSpec, build_regions};
+use super::structuring::{Direction, exact_degree};
 use super::table::{Role, TableRow};
 use crate::facts::{self, Facts, Individual, Measurement, Provenance, Relation, Source};
 use rayon::prelude::*;

@@ -12,6 +12,7 @@ pub mod phantom;
 pub mod picture;
 pub mod rcc8;
 pub mod region;
+pub mod structuring;
 pub mod table;
 
 use std::path::Path;

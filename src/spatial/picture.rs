@@ -4,10 +4,11 @@
 
 use super::SpatialError;
 use super::config::MeasureConfig;
-use super::landscape::{Direction, FastLandscape};
+use super::landscape::FastLandscape;
 use super::mask::Mask;
 use super::nifti_io::LabelMap;
 use super::region::Region;
+use super::structuring::Direction;
 use super::table::Role;
 use crate::facts::Facts;
 use std::path::Path;

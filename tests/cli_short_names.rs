@@ -19,12 +19,18 @@ AnnotationAssertion(rdfs:label :Clash \"bad mixture\"@en)
 )
 ";
 
+/// The file, written once per test process: tests run in parallel, and rewriting it while
+/// another test reads it would hand that test an empty file.
 fn kb_file() -> PathBuf {
-    let d = std::env::temp_dir().join(format!("wf-short-names-{}", std::process::id()));
-    std::fs::create_dir_all(&d).unwrap();
-    let f = d.join("t.ofn");
-    std::fs::write(&f, KB).unwrap();
-    f
+    static FILE: std::sync::OnceLock<PathBuf> = std::sync::OnceLock::new();
+    FILE.get_or_init(|| {
+        let d = std::env::temp_dir().join(format!("wf-short-names-{}", std::process::id()));
+        std::fs::create_dir_all(&d).unwrap();
+        let f = d.join("t.ofn");
+        std::fs::write(&f, KB).unwrap();
+        f
+    })
+    .clone()
 }
 
 fn why(args: &[&str]) -> (i32, String, String) {

@@ -75,6 +75,12 @@ sroiq! {
     // The OWL 2 Primer's ages: definitions used before they are given, one built from two.
     datatype_definitions: "datatype-definition";
     top_and_bottom_properties: "top-bottom-properties";
+    // The universal role inside class expressions (∃U, ∀U, nested, with ∃U.{a}).
+    universal_role_in_the_tbox: "universal-tbox";
+    // ∀U reaches every element, named or anonymous; an ABox fact makes ∃U true everywhere.
+    universal_role_with_facts: "universal-abox";
+    universal_role_inconsistent: "universal-inconsistent";
+    bottom_data_property: "bottom-data";
 }
 
 /// horned-owl reads every fixture here completely, so a failure above is never a parse gap.
@@ -89,7 +95,7 @@ fn sroiq_fixtures_parse_with_horned_owl() {
             n += 1;
         }
     }
-    assert_eq!(n, 24);
+    assert_eq!(n, 28);
 }
 
 /// A cycle among datatype definitions is outside OWL 2 DL (Structural Specification §11.2):
@@ -114,6 +120,56 @@ fn datatype_definition_refusals_name_the_problem() {
             "redefine.ofn",
             "DatatypeDefinition(xsd:integer xsd:string)\n",
             "cannot be redefined",
+        ),
+    ] {
+        let f = tmp.join(name);
+        std::fs::write(&f, format!("{head}{body})\n")).unwrap();
+        let out = std::process::Command::new(env!("CARGO_BIN_EXE_wherefore"))
+            .args(["classify", f.to_str().unwrap()])
+            .output()
+            .unwrap();
+        let err = String::from_utf8_lossy(&out.stderr);
+        assert_eq!(out.status.code(), Some(2), "{name}: {err}");
+        assert!(err.contains(needle), "{name}: {err}");
+        assert!(err.contains(name), "{name} names the file: {err}");
+    }
+    std::fs::remove_dir_all(&tmp).ok();
+}
+
+/// What OWL 2 DL forbids of the top properties is refused with the section named (exit 2):
+/// owl:topObjectProperty is not simple (Structural Specification §11.1), so it may not carry
+/// number or self restrictions nor be functional; owl:topDataProperty may appear only as a
+/// super-property (§11.2). HermiT 1.3.8 refuses the same axioms.
+#[test]
+fn top_property_refusals_cite_owl2_dl() {
+    let tmp = std::env::temp_dir().join(format!("wherefore-top-{}", std::process::id()));
+    std::fs::create_dir_all(&tmp).unwrap();
+    let head = "Prefix(:=<http://example.org/t#>)\nPrefix(owl:=<http://www.w3.org/2002/07/owl#>)\nPrefix(xsd:=<http://www.w3.org/2001/XMLSchema#>)\nOntology(<http://example.org/t>\nDeclaration(Class(:A)) Declaration(NamedIndividual(:a))\n";
+    for (name, body, needle) in [
+        (
+            "at-most.ofn",
+            "SubClassOf(owl:Thing ObjectMaxCardinality(2 owl:topObjectProperty :A))\n",
+            "§11.1",
+        ),
+        (
+            "self.ofn",
+            "SubClassOf(:A ObjectHasSelf(owl:topObjectProperty))\n",
+            "§11.1",
+        ),
+        (
+            "functional.ofn",
+            "FunctionalObjectProperty(owl:topObjectProperty)\n",
+            "§11.1",
+        ),
+        (
+            "top-data.ofn",
+            "DataPropertyAssertion(owl:topDataProperty :a \"x\")\n",
+            "§11.2",
+        ),
+        (
+            "top-data-some.ofn",
+            "SubClassOf(:A DataSomeValuesFrom(owl:topDataProperty xsd:integer))\n",
+            "§11.2",
         ),
     ] {
         let f = tmp.join(name);

@@ -11,7 +11,7 @@ use std::time::Instant;
 /// Arguments of `wherefore classify`.
 #[derive(Args, Debug)]
 pub struct ClassifyArgs {
-    /// Ontology files (functional syntax, OWL/XML or RDF/XML).
+    /// Ontology files in any OWL 2 syntax (functional, OWL/XML, RDF/XML, Turtle, N-Triples, Manchester), detected by content.
     #[arg(required = true)]
     pub ontologies: Vec<PathBuf>,
     /// Output format.

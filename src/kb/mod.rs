@@ -8,6 +8,7 @@ pub mod error;
 pub mod load;
 pub mod names;
 pub mod owl;
+pub mod universal;
 
 pub use concept::{Concept, ConceptId, ConceptStore};
 pub use datarange::{DataRange, DataRangeId, DataRangeStore};
@@ -256,6 +257,9 @@ pub struct KnowledgeBase {
     pub files: Vec<String>,
     /// Datatypes named by `DatatypeDefinition` axioms, by IRI, with the ranges they stand for.
     pub datatype_defs: BTreeMap<String, DataRange>,
+    /// The link property and hub individual that encode the universal role, once a class
+    /// expression uses it ([`universal`]).
+    pub universal: Option<(PropId, IndividualId)>,
 }
 
 impl KnowledgeBase {

@@ -3,7 +3,10 @@
 
 use super::datarange::DataRange;
 use super::datatype;
+use super::universal::{self, Restriction};
 use super::{AnnotationValue, Axiom, ConceptId, IndividualId, KbError, KnowledgeBase, RoleId};
+mod special;
+
 use horned_owl::io::ofn::writer::AsFunctional;
 use horned_owl::model::{
     AnnotatedComponent, AnnotationSubject, ArcStr, ClassExpression as CE, Component,
@@ -167,6 +170,9 @@ impl Converter<'_> {
     /// Converts one component; returns whether it was a logical axiom.
     fn component(&mut self, c: &Component<ArcStr>, src: usize) -> Conv<bool> {
         use Component as C;
+        if let Some(done) = self.special_property_axiom(c, src) {
+            return done;
+        }
         match c {
             C::OntologyID(_) | C::DocIRI(_) | C::Import(_) | C::OntologyAnnotation(_) => Ok(false),
             C::DeclareClass(cl) => {
@@ -514,7 +520,7 @@ impl Converter<'_> {
                 }
                 Ok(())
             }
-            CE::ObjectHasValue { ope, i } => {
+            CE::ObjectHasValue { ope, i } if special_property(ope).is_none() => {
                 let r = self.role(ope)?;
                 let b = self.individual(i);
                 self.kb.push(Axiom::RoleAssertion(r, a, b), src);
@@ -526,7 +532,7 @@ impl Converter<'_> {
                 Ok(())
             }
             CE::ObjectComplementOf(inner) => match inner.as_ref() {
-                CE::ObjectHasValue { ope, i } => {
+                CE::ObjectHasValue { ope, i } if special_property(ope).is_none() => {
                     let r = self.role(ope)?;
                     let b = self.individual(i);
                     self.kb.push(Axiom::NegativeRoleAssertion(r, a, b), src);
@@ -574,7 +580,7 @@ impl Converter<'_> {
                 "bottomObjectProperty"
             };
             return Err(format!(
-                "owl:{name} is supported only where it makes the axiom trivially true or false (sub- and super-property, assertions, bottom inside restrictions); rewrite the axiom without it"
+                "owl:{name} is supported in class expressions and in axioms about it, but not inside a property chain nor below an ordinary property (which would make that property universal or empty in ways the reasoner does not represent); rewrite the axiom without it"
             ));
         }
         Ok(match e {
@@ -621,7 +627,7 @@ impl Converter<'_> {
     }
 
     fn ce_nested(&mut self, e: &CE<ArcStr>) -> Conv<ConceptId> {
-        if let Some(c) = special_restriction(e) {
+        if let Some(c) = self.special_restriction(e)? {
             return Ok(c);
         }
         Ok(match e {
@@ -726,6 +732,60 @@ impl Converter<'_> {
         })
     }
 
+    /// A restriction on the top or bottom object or data property, in the terms of
+    /// [`super::universal`]; `None` for every other class expression.
+    fn special_restriction(&mut self, e: &CE<ArcStr>) -> Conv<Option<ConceptId>> {
+        use Restriction as R;
+        if let CE::ObjectHasSelf(ope) = e {
+            // ⊥-related to nothing; a self restriction on U is not OWL 2 DL.
+            return match special_property(ope) {
+                Some(true) => Err(universal::NOT_SIMPLE.into()),
+                Some(false) => Ok(Some(ConceptId::BOTTOM)),
+                None => Ok(None),
+            };
+        }
+        if let Some((ope, kinds, filler)) = object_restriction(e) {
+            let Some(top) = special_property(ope) else {
+                return Ok(None);
+            };
+            if let CE::ObjectHasValue { i, .. } = e {
+                self.individual(i);
+            }
+            let mut parts = Vec::new();
+            for kind in kinds {
+                parts.push(match (top, kind, filler) {
+                    (false, _, _) => universal::bottom(kind),
+                    (true, Restriction::AtLeast(_) | Restriction::AtMost(_), _) => {
+                        return Err(universal::NOT_SIMPLE.into());
+                    }
+                    // ∃U.{a}: a is an element.
+                    (true, _, None) => ConceptId::TOP,
+                    (true, _, Some(f)) => {
+                        let f = self.ce(f)?;
+                        self.kb.universal_restriction(kind == Restriction::All, f)
+                    }
+                });
+            }
+            return Ok(Some(self.kb.concepts.and(parts)));
+        }
+        let (dp, kinds) = match e {
+            CE::DataSomeValuesFrom { dp, .. } | CE::DataHasValue { dp, .. } => (dp, vec![R::Some]),
+            CE::DataAllValuesFrom { dp, .. } => (dp, vec![R::All]),
+            CE::DataMinCardinality { n, dp, .. } => (dp, vec![R::AtLeast(*n)]),
+            CE::DataMaxCardinality { n, dp, .. } => (dp, vec![R::AtMost(*n)]),
+            CE::DataExactCardinality { n, dp, .. } => (dp, vec![R::AtLeast(*n), R::AtMost(*n)]),
+            _ => return Ok(None),
+        };
+        match special_data_property(&dp.0) {
+            None => Ok(None),
+            Some(true) => Err(universal::TOP_DATA.into()),
+            Some(false) => {
+                let parts: Vec<ConceptId> = kinds.into_iter().map(universal::bottom).collect();
+                Ok(Some(self.kb.concepts.and(parts)))
+            }
+        }
+    }
+
     fn data_range(&mut self, d: &HDataRange<ArcStr>) -> Conv<DataRange> {
         Ok(match d {
             HDataRange::Datatype(dt) => match self.kb.datatype_defs.get(&*dt.0) {
@@ -793,48 +853,43 @@ fn literal_parts(l: &Literal<ArcStr>) -> (String, Option<String>, Option<String>
     }
 }
 
-/// The value of a restriction on the bottom property (no element has a successor) or of a
-/// self restriction on the top property (every element is related to itself), which are ⊤ or
-/// ⊥ whatever the filler.
-fn special_restriction(e: &CE<ArcStr>) -> Option<ConceptId> {
-    let (ope, value) = match e {
-        CE::ObjectSomeValuesFrom { ope, .. } | CE::ObjectHasValue { ope, .. } => {
-            (ope, ConceptId::BOTTOM)
-        }
-        CE::ObjectAllValuesFrom { ope, .. } | CE::ObjectMaxCardinality { ope, .. } => {
-            (ope, ConceptId::TOP)
-        }
-        CE::ObjectMinCardinality { n, ope, .. } | CE::ObjectExactCardinality { n, ope, .. } => (
-            ope,
-            if *n == 0 {
-                ConceptId::TOP
-            } else {
-                ConceptId::BOTTOM
-            },
-        ),
-        CE::ObjectHasSelf(ope) => {
-            return match special_property(ope)? {
-                true => Some(ConceptId::TOP),
-                false => Some(ConceptId::BOTTOM),
-            };
-        }
-        _ => return None,
-    };
-    (!special_property(ope)?).then_some(value)
-}
-
 /// Whether a property expression is owl:topObjectProperty (`Some(true)`) or
 /// owl:bottomObjectProperty (`Some(false)`), inverses included (both are symmetric).
 fn special_property(e: &OPE<ArcStr>) -> Option<bool> {
-    let iri = match e {
-        OPE::ObjectProperty(p) | OPE::InverseObjectProperty(p) => p.0.to_string(),
-    };
-    if iri == format!("{OWL}topObjectProperty") {
-        Some(true)
-    } else if iri == format!("{OWL}bottomObjectProperty") {
-        Some(false)
-    } else {
-        None
+    let (OPE::ObjectProperty(p) | OPE::InverseObjectProperty(p)) = e;
+    match p.0.strip_prefix(OWL)? {
+        "topObjectProperty" => Some(true),
+        "bottomObjectProperty" => Some(false),
+        _ => None,
+    }
+}
+
+/// An object restriction's property, kinds (two for an exact cardinality) and filler
+/// (`None` for ObjectHasValue, whose filler is never empty).
+type ObjectRestriction<'e> = (&'e OPE<ArcStr>, Vec<Restriction>, Option<&'e CE<ArcStr>>);
+
+fn object_restriction(e: &CE<ArcStr>) -> Option<ObjectRestriction<'_>> {
+    use Restriction as R;
+    Some(match e {
+        CE::ObjectSomeValuesFrom { ope, bce } => (ope, vec![R::Some], Some(bce)),
+        CE::ObjectAllValuesFrom { ope, bce } => (ope, vec![R::All], Some(bce)),
+        CE::ObjectMinCardinality { n, ope, bce } => (ope, vec![R::AtLeast(*n)], Some(bce)),
+        CE::ObjectMaxCardinality { n, ope, bce } => (ope, vec![R::AtMost(*n)], Some(bce)),
+        CE::ObjectExactCardinality { n, ope, bce } => {
+            (ope, vec![R::AtLeast(*n), R::AtMost(*n)], Some(bce))
+        }
+        CE::ObjectHasValue { ope, .. } => (ope, vec![R::Some], None),
+        _ => return None,
+    })
+}
+
+/// Whether a data property is owl:topDataProperty (`Some(true)`) or owl:bottomDataProperty
+/// (`Some(false)`).
+fn special_data_property(iri: &str) -> Option<bool> {
+    match iri.strip_prefix(OWL)? {
+        "topDataProperty" => Some(true),
+        "bottomDataProperty" => Some(false),
+        _ => None,
     }
 }
 

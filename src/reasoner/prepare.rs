@@ -74,6 +74,10 @@ pub struct Prepared {
     pub disjoint_roles: Vec<(RoleId, RoleId)>,
     /// Keys (class, object properties, data properties), applied to named individuals.
     pub keys: Vec<(ConceptId, Vec<RoleId>, Vec<DataPropId>)>,
+    /// Which individuals keys apply to: the named ones, not anonymous individuals (`_:`
+    /// names, the universal role's hub among them; OWL 2 Structural Specification §9.5).
+    /// Empty when there is no key.
+    pub keyed: Vec<bool>,
     /// Whether a TBox axiom has an at-most restriction or a functional property.
     pub tbox_at_most: bool,
     /// Emptiness of intersections of data ranges, remembered across the tests of this
@@ -145,13 +149,15 @@ pub fn prepare(
         universal: ConceptId::TOP,
         ..Default::default()
     };
+    // The universal role's background axiom (see `kb::universal`) belongs to no source.
+    let hub = crate::kb::universal::hub_axiom(kb.universal, concepts);
     let axioms: Vec<(&Axiom, Option<usize>)> = kb
         .axioms
         .iter()
         .enumerate()
         .filter(|(i, _)| enabled.is_none_or(|m| m.get(*i).copied().unwrap_or(true)))
         .map(|(_, a)| (&a.axiom, Some(a.source)))
-        .chain(extra.iter().map(|a| (a, None)))
+        .chain(extra.iter().chain(hub.iter()).map(|a| (a, None)))
         .collect();
 
     // Role hierarchy.
@@ -410,7 +416,17 @@ pub fn prepare(
                     }
                 }
             }
-            Axiom::HasKey(c, rs, ds) => p.keys.push((*c, rs.clone(), ds.clone())),
+            Axiom::HasKey(c, rs, ds) => {
+                if p.keyed.is_empty() {
+                    p.keyed = kb
+                        .vocab
+                        .individuals
+                        .iter()
+                        .map(|iri| !iri.starts_with("_:"))
+                        .collect();
+                }
+                p.keys.push((*c, rs.clone(), ds.clone()))
+            }
             Axiom::Functional(r) => {
                 let f = concepts.at_most(1, *r, ConceptId::TOP);
                 p.triggers[r.index()].push(f);

@@ -34,7 +34,13 @@ impl Tableau<'_> {
     pub(super) fn apply_keys(&mut self) -> bool {
         let prep = self.prep;
         let named: Vec<NodeId> = (0..self.g.nodes.len())
-            .filter(|&x| self.g.nodes[x].active && !self.g.nodes[x].names.is_empty())
+            .filter(|&x| {
+                let n = &self.g.nodes[x];
+                n.active
+                    && n.names
+                        .iter()
+                        .any(|a| prep.keyed.get(a.index()).copied().unwrap_or(false))
+            })
             .collect();
         let mut apart: HashSet<(NodeId, NodeId, DataPropId)> = HashSet::new();
         for &(a, b, d, _) in &self.g.key_apart {

@@ -78,6 +78,7 @@ DEFAULTS = {
     "dassert": 1.0,      # mean number of data assertions per individual
     "key": 0.0,          # chance per ontology of a HasKey axiom (object and data properties)
     "abox": 1.0,         # 0 leaves out the random ABox (planted key assertions stay)
+    "universal": 0,      # relative weight of ∃ and ∀ on owl:topObjectProperty (each)
 }
 
 
@@ -254,6 +255,9 @@ class Gen:
         if self.data:
             kinds += ["dsome", "dall", "dvalue", "dcard"]
             weights += [self.w["data"]] * 4
+        if self.w["universal"]:
+            kinds += ["usome", "uall"]
+            weights += [self.w["universal"]] * 2
         k = rng.choices(kinds, weights)[0]
         sub = lambda: self.expr(depth - 1)  # noqa: E731
         if k == "and":
@@ -266,6 +270,10 @@ class Gen:
             return "ObjectSomeValuesFrom(%s %s)" % (self.role(), sub())
         if k == "all":
             return "ObjectAllValuesFrom(%s %s)" % (self.role(), sub())
+        if k == "usome":
+            return "ObjectSomeValuesFrom(owl:topObjectProperty %s)" % sub()
+        if k == "uall":
+            return "ObjectAllValuesFrom(owl:topObjectProperty %s)" % sub()
         if k == "self":
             return "ObjectHasSelf(%s)" % self.role(simple_only=True)
         if k == "notself":

@@ -86,6 +86,8 @@ fn fixtures_cover_the_sroiq_constructs() {
         "ObjectHasValue(",
         "ObjectOneOf(",
         "ObjectExactCardinality(",
+        "ObjectSomeValuesFrom(owl:topObjectProperty",
+        "ObjectAllValuesFrom(owl:topObjectProperty",
     ] {
         let n = text.matches(construct).count();
         assert!(n >= 20, "{construct} occurs only {n} times in the fixtures");

@@ -82,6 +82,13 @@ pub fn concept_ofn(
     c: ConceptId,
 ) -> String {
     let f = |x: ConceptId| concept_ofn(kb, cs, ranges, x);
+    if let Some((all, filler)) = crate::kb::universal::as_universal(kb, cs, c) {
+        let kind = if all { "All" } else { "Some" };
+        return format!(
+            "Object{kind}ValuesFrom(<http://www.w3.org/2002/07/owl#topObjectProperty> {})",
+            f(filler)
+        );
+    }
     match cs.get(c) {
         Concept::Top => "owl:Thing".replace("owl:", "<http://www.w3.org/2002/07/owl#") + ">",
         Concept::Bottom => "<http://www.w3.org/2002/07/owl#Nothing>".into(),

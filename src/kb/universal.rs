@@ -86,6 +86,29 @@ impl KnowledgeBase {
     }
 }
 
+/// The universal restriction a concept of the encoding stands for, for writing it back:
+/// `Some((all, filler))` for ∃h.∃h⁻.F (`all` false) and ∀h.∀h⁻.F (`all` true).
+pub fn as_universal(
+    kb: &KnowledgeBase,
+    cs: &ConceptStore,
+    c: ConceptId,
+) -> Option<(bool, ConceptId)> {
+    use super::Concept;
+    let (h, _) = kb.universal?;
+    let h = RoleId::named(h);
+    match *cs.get(c) {
+        Concept::Some(r, inner) if r == h => match *cs.get(inner) {
+            Concept::Some(b, f) if b == h.inverse() => Some((false, f)),
+            _ => None,
+        },
+        Concept::All(r, inner) if r == h => match *cs.get(inner) {
+            Concept::All(b, f) if b == h.inverse() => Some((true, f)),
+            _ => None,
+        },
+        _ => None,
+    }
+}
+
 /// The background axiom ⊤ ⊑ ∃h.{o} ⊓ ∀h.{o} when the knowledge base uses the universal role.
 /// It is part of every reasoner built over the knowledge base, whichever axioms are enabled:
 /// it constrains only the fresh names, so it never changes an answer by itself.
@@ -131,6 +154,15 @@ mod tests {
         assert_eq!(kb.vocab.props.len(), 1);
         assert_eq!(kb.vocab.individuals.len(), 1);
         assert!(kb.tbox_nominals);
+        assert_eq!(
+            as_universal(&kb, &kb.concepts, a),
+            Some((false, ConceptId::TOP))
+        );
+        let c = kb.universal_restriction(true, ConceptId::BOTTOM);
+        assert_eq!(
+            as_universal(&kb, &kb.concepts, c),
+            Some((true, ConceptId::BOTTOM))
+        );
         let mut cs = kb.concepts.clone();
         assert!(hub_axiom(kb.universal, &mut cs).is_some());
         assert!(hub_axiom(None, &mut cs).is_none());

@@ -8,6 +8,7 @@ pub mod error;
 pub mod load;
 pub mod names;
 pub mod owl;
+pub mod syntax;
 
 pub use concept::{Concept, ConceptId, ConceptStore};
 pub use datarange::{DataRange, DataRangeId, DataRangeStore};

@@ -253,28 +253,12 @@ impl EntityIndex {
             .collect::<Vec<_>>()
             .join(" or ");
         match cands.len() {
-            0 => {
-                let near = self.near(name, kinds);
-                Err(format!(
-                    "unknown {wanted} `{name}`; {}",
-                    if near.is_empty() {
-                        "check the spelling, or write a prefixed name or a full IRI in <...>"
-                            .to_string()
-                    } else {
-                        format!(
-                            "did you mean {}?",
-                            near.iter()
-                                .map(|n| if n.starts_with('\'') {
-                                    n.clone()
-                                } else {
-                                    format!("`{n}`")
-                                })
-                                .collect::<Vec<_>>()
-                                .join(" or ")
-                        )
-                    }
-                ))
-            }
+            0 => Err(format!(
+                "unknown {wanted} `{name}`; {}",
+                self.did_you_mean(name, kinds).unwrap_or_else(|| {
+                    "check the spelling, or write a prefixed name or a full IRI in <...>".into()
+                })
+            )),
             1 => {
                 let e = &self.entities[cands[0]];
                 Ok((e.kind, e.iri.clone()))
@@ -291,6 +275,24 @@ impl EntityIndex {
                     .join(", ")
             )),
         }
+    }
+
+    /// "did you mean `A` or 'a label'?" with the names close to `name` (see `near`), if any.
+    pub fn did_you_mean(&self, name: &str, kinds: &[Kind]) -> Option<String> {
+        let near = self.near(name, kinds);
+        (!near.is_empty()).then(|| {
+            let quoted: Vec<String> = near
+                .iter()
+                .map(|n| {
+                    if n.starts_with('\'') {
+                        n.clone()
+                    } else {
+                        format!("`{n}`")
+                    }
+                })
+                .collect();
+            format!("did you mean {}?", quoted.join(" or "))
+        })
     }
 
     /// Names close to `name` among the wanted kinds: IRI fragments and labels within an

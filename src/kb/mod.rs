@@ -4,6 +4,7 @@
 pub mod concept;
 pub mod datarange;
 pub mod datatype;
+pub mod dl;
 pub mod error;
 pub mod load;
 pub mod names;

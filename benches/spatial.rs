@@ -12,11 +12,12 @@
 use criterion::{Criterion, criterion_group, criterion_main};
 use std::hint::black_box;
 use std::time::{Duration, Instant};
+use wherefore::facts::measure::measure;
 use wherefore::spatial::affine::Affine;
 use wherefore::spatial::edt::edt;
 use wherefore::spatial::landscape::FastLandscape;
 use wherefore::spatial::mask::Mask;
-use wherefore::spatial::measure::{MeasureOptions, measure};
+use wherefore::spatial::measure::MeasureOptions;
 use wherefore::spatial::phantom::Phantom;
 use wherefore::spatial::structuring::Direction;
 use wherefore::spatial::table::parse_table;

@@ -7,10 +7,11 @@
 
 use crate::explain::ExplainOptions;
 use crate::explain::case::case_problem;
+use crate::facts::measure::measure;
 use crate::kb::{KnowledgeBase, load};
 use crate::render::{self, ReportInput};
 use crate::spatial::affine::Affine;
-use crate::spatial::measure::{MeasureOptions, measure};
+use crate::spatial::measure::MeasureOptions;
 use crate::spatial::phantom::Phantom;
 use crate::spatial::table::parse_table;
 use std::path::{Path, PathBuf};
@@ -224,8 +225,7 @@ pub fn run(dir: &Path) -> Result<Vec<CaseOutcome>, String> {
         if crate::spatial::picture::write_pictures(
             &pic_dir,
             &maps[0],
-            &measured.regions,
-            &facts,
+            &measured.geometry,
             &opts.config,
         )
         .is_ok()

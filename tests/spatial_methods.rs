@@ -3,12 +3,13 @@
 
 use proptest::prelude::*;
 use std::path::Path;
+use wherefore::facts::measure::measure;
 use wherefore::spatial::affine::{Affine, AffineSource};
 use wherefore::spatial::config::MeasureConfig;
 use wherefore::spatial::edt::{edt, edt_squared, edt_squared_brute};
 use wherefore::spatial::landscape::{Aggregate, FastLandscape, LandscapeMode};
 use wherefore::spatial::mask::{Adjacency, Mask};
-use wherefore::spatial::measure::{MeasureOptions, measure};
+use wherefore::spatial::measure::MeasureOptions;
 use wherefore::spatial::nifti_io::{RawHeader, dtype, encode_labels, read_label_map, write_nifti};
 use wherefore::spatial::phantom::{Phantom, oblique_affine};
 use wherefore::spatial::rcc8::{Rcc8, compose, relate};

@@ -5,6 +5,7 @@
 //! Results are data; `cli::check` prints them and maps errors to exit codes.
 
 pub mod accept;
+mod axioms;
 pub mod baseline;
 pub mod diff;
 pub mod init;

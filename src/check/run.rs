@@ -3,11 +3,14 @@
 //! outcome that `baseline` compares and `accept` writes back.
 
 use super::CheckError;
+use super::axioms::{
+    CaseNames, assertion_text, at, case_prefixes, intern_individuals, parse_item, unknown_vocab,
+};
 use super::suite::{
-    CaseSpec, Expect, Expectation, Input, Item1, Register, abbreviate, expand_name, prefix_header,
+    CaseSpec, Expect, Expectation, Input, Item1, Register, abbreviate, expand_name,
 };
 use crate::explain::case::{Mark, case_problem, observations_problem, read_abducibles};
-use crate::explain::{Assertion, ExplainOptions, Problem, explain};
+use crate::explain::{ExplainOptions, Problem, explain};
 use crate::facts::Facts;
 use crate::facts::abox::CaseAbox;
 use crate::kb::{Axiom, KnowledgeBase, load};
@@ -262,12 +265,13 @@ fn empty_facts() -> Facts {
     }
 }
 
-fn at(c: &CaseSpec, line: usize) -> String {
-    format!("{}:{line}", c.file.display())
-}
-
 /// Builds the case's KB and, when asked, its abduction problem.
-fn case_kb(c: &CaseSpec, kb: &KnowledgeBase, want_problem: bool) -> Result<CaseKb, CheckError> {
+fn case_kb(
+    c: &CaseSpec,
+    kb: &KnowledgeBase,
+    prefixes: &[(String, String)],
+    want_problem: bool,
+) -> Result<CaseKb, CheckError> {
     let here = |e: String| CheckError(format!("{}: case {:?}: {e}", at(c, c.line), c.name));
     let facts = match &c.input {
         Input::Facts(p) => Some(crate::facts::read_facts(p).map_err(here)?),
@@ -310,7 +314,7 @@ fn case_kb(c: &CaseSpec, kb: &KnowledgeBase, want_problem: bool) -> Result<CaseK
     abox.first_axiom = kb.axioms.len();
     if let Some(bg) = &c.background {
         let origin = format!("{} (background of case {:?})", at(c, bg.line), c.name);
-        let doc = format!("{}{}", prefix_header(&c.prefixes), bg.text);
+        let doc = CaseNames::new(&kb, prefixes).read(c, bg, "background", true)?;
         intern_individuals(&mut kb, &origin, &doc)?;
         let mark = Mark::of(&kb);
         load::load_axioms_text(&mut kb, &origin, &doc).map_err(|e| CheckError(e.to_string()))?;
@@ -318,7 +322,11 @@ fn case_kb(c: &CaseSpec, kb: &KnowledgeBase, want_problem: bool) -> Result<CaseK
     }
     if let Input::Assertions { text, line } = &c.input {
         let origin = format!("{} (assertions of case {:?})", at(c, *line), c.name);
-        let doc = format!("{}{text}", prefix_header(&c.prefixes));
+        let item = Item1 {
+            text: text.clone(),
+            line: *line,
+        };
+        let doc = CaseNames::new(&kb, prefixes).read(c, &item, "assertions", true)?;
         intern_individuals(&mut kb, &origin, &doc)?;
         let mark = Mark::of(&kb);
         load::load_axioms_text(&mut kb, &origin, &doc).map_err(|e| CheckError(e.to_string()))?;
@@ -345,107 +353,6 @@ fn case_kb(c: &CaseSpec, kb: &KnowledgeBase, want_problem: bool) -> Result<CaseK
     })
 }
 
-/// Interns the individuals a case's text introduces, so that they count as known; classes
-/// and properties must come from the KB.
-fn intern_individuals(kb: &mut KnowledgeBase, origin: &str, doc: &str) -> Result<(), CheckError> {
-    let mut scratch = kb.clone();
-    let m0 = Mark::of(&scratch);
-    load::load_axioms_text(&mut scratch, origin, doc).map_err(|e| CheckError(e.to_string()))?;
-    for i in m0.individuals..scratch.vocab.individuals.len() {
-        let iri = scratch
-            .vocab
-            .individual_iri(crate::kb::IndividualId(i as u32))
-            .to_string();
-        kb.vocab.individual(&iri);
-    }
-    Ok(())
-}
-
-/// An error when text added after `mark` named a class, property or individual the KB does
-/// not know.
-fn unknown_vocab(
-    kb: &KnowledgeBase,
-    mark: Mark,
-    origin: &str,
-    what: &str,
-) -> Result<(), CheckError> {
-    let unknown = if kb.vocab.classes.len() > mark.classes {
-        Some((
-            "class",
-            kb.vocab
-                .class_iri(crate::kb::ClassId(mark.classes as u32))
-                .to_string(),
-        ))
-    } else if kb.vocab.props.len() > mark.props {
-        Some((
-            "object property",
-            kb.vocab
-                .prop_iri(crate::kb::PropId(mark.props as u32))
-                .to_string(),
-        ))
-    } else if kb.vocab.individuals.len() > mark.individuals {
-        Some((
-            "individual",
-            kb.vocab
-                .individual_iri(crate::kb::IndividualId(mark.individuals as u32))
-                .to_string(),
-        ))
-    } else {
-        None
-    };
-    match unknown {
-        Some((kind, iri)) => Err(CheckError(format!(
-            "{origin}: {what}names the {kind} <{iri}>, which the knowledge base does not know; fix the name (check the prefixes) or add it to the KB"
-        ))),
-        None => Ok(()),
-    }
-}
-
-/// Parses one functional-syntax item of an expectation into `kb`, refusing unknown names.
-/// Returns the new axioms' range.
-fn parse_item(
-    kb: &mut KnowledgeBase,
-    c: &CaseSpec,
-    key: &str,
-    item: &Item1,
-) -> Result<std::ops::Range<usize>, CheckError> {
-    let origin = at(c, item.line);
-    let mark = Mark::of(kb);
-    let doc = format!("{}{}", prefix_header(&c.prefixes), item.text);
-    let r = load::load_axioms_text(kb, &origin, &doc)
-        .map_err(|e| CheckError(format!("{e} (in expect.{key})")))?;
-    unknown_vocab(kb, mark, &origin, &format!("expect.{key}: {} ", item.text))?;
-    if r.is_empty() {
-        return Err(CheckError(format!(
-            "{origin}: expect.{key}: {:?} is not an axiom in functional syntax",
-            item.text
-        )));
-    }
-    Ok(r)
-}
-
-/// Parses an assertion of an expected explanation and returns its canonical text.
-fn assertion_text(
-    kb: &mut KnowledgeBase,
-    c: &CaseSpec,
-    key: &str,
-    item: &Item1,
-) -> Result<String, CheckError> {
-    let r = parse_item(kb, c, key, item)?;
-    let a = match (r.len(), &kb.axioms[r.start].axiom) {
-        (1, Axiom::ClassAssertion(k, a)) => Assertion::Class(*k, *a),
-        (1, Axiom::RoleAssertion(p, a, b)) => Assertion::Role(*p, *a, *b),
-        _ => {
-            return Err(CheckError(format!(
-                "{}: expect.{key}: {:?} must be one ClassAssertion or ObjectPropertyAssertion",
-                at(c, item.line),
-                item.text
-            )));
-        }
-    };
-    Ok(a.text(kb, &kb.concepts))
-}
-
 fn answer_word(a: Answer, yes: &str, no: &str) -> String {
     match a {
         Answer::Yes => yes.into(),
@@ -467,12 +374,13 @@ fn evaluate(
     };
     let needs = c.expect.iter().any(|e| e.expect.needs_explanations());
     let want = needs || (opts.explain_always && !matches!(c.input, Input::None));
+    let prefixes = case_prefixes(c, base);
     let ck = if want && !needs {
         // Only a comparison asked for the search: a case without findings or abducibles
         // is still run for its other questions.
-        case_kb(c, base, true).or_else(|_| case_kb(c, base, false))?
+        case_kb(c, base, &prefixes, true).or_else(|_| case_kb(c, base, &prefixes, false))?
     } else {
-        case_kb(c, base, needs)?
+        case_kb(c, base, &prefixes, needs)?
     };
     let short = |s: &str| abbreviate(s, &c.prefixes);
     let mut checks = Vec::new();
@@ -481,6 +389,7 @@ fn evaluate(
     // KB-level questions: parse the items into a copy of the case KB, then ask a reasoner
     // over the case's axioms only.
     let mut qkb = ck.kb.clone();
+    let names = CaseNames::new(&ck.kb, &prefixes);
     let mut queries: Vec<(usize, Vec<(Axiom, String)>)> = Vec::new();
     let mut classes: Vec<(usize, Vec<(crate::kb::ClassId, String)>)> = Vec::new();
     for (i, e) in c.expect.iter().enumerate() {
@@ -488,7 +397,7 @@ fn evaluate(
             Expect::Entailed(items) | Expect::NotEntailed(items) => {
                 let mut v = Vec::new();
                 for it in items {
-                    let r = parse_item(&mut qkb, c, &e.key, it)?;
+                    let r = parse_item(&mut qkb, &names, c, &e.key, it)?;
                     let ax = qkb.axioms[r.start].axiom.clone();
                     let ok = r.len() == 1
                         && matches!(
@@ -517,8 +426,9 @@ fn evaluate(
                     // it (prefixed with the KB's prefixes, fragment or label).
                     let mut why_not = String::new();
                     let iri = expand_name(&it.text, &c.prefixes).or_else(|| {
-                        let ix = crate::kb::names::index_of_loaded(base);
-                        ix.resolve(it.text.trim(), &[crate::kb::names::Kind::Class])
+                        names
+                            .index()
+                            .resolve(it.text.trim(), &[crate::kb::names::Kind::Class])
                             .map_err(|e| why_not = format!(" ({e})"))
                             .ok()
                             .map(|(_, iri)| iri)
@@ -690,12 +600,13 @@ fn evaluate(
     };
     let rank_of = |e: &[String]| ranked.iter().position(|x| x.as_slice() == e).map(|p| p + 1);
     let mut ekb = pkb.clone();
+    let enames = CaseNames::new(pkb, &prefixes);
     let mut report = None;
     for e in &c.expect {
         let expl = |items: &[Item1], ekb: &mut KnowledgeBase| -> Result<Vec<String>, CheckError> {
             let mut v = items
                 .iter()
-                .map(|it| assertion_text(ekb, c, &e.key, it))
+                .map(|it| assertion_text(ekb, &enames, c, &e.key, it))
                 .collect::<Result<Vec<_>, _>>()?;
             v.sort();
             v.dedup();
@@ -795,7 +706,7 @@ fn evaluate(
             Expect::Abnormalities(items) => {
                 let mut want = Vec::new();
                 for it in items {
-                    let r = parse_item(&mut ekb, c, &e.key, it)?;
+                    let r = parse_item(&mut ekb, &enames, c, &e.key, it)?;
                     want.push(ekb.sources[ekb.axioms[r.start].source].text.clone());
                 }
                 want.sort();

@@ -246,6 +246,16 @@ impl Ctx<'_> {
     fn err(&self, line: usize, msg: impl std::fmt::Display) -> CheckError {
         CheckError(format!("{}:{line}: {msg}", self.file.display()))
     }
+    /// The line of a string's first character: a multi-line string that opens with a line
+    /// break starts on the next line (TOML 1.0 drops that break).
+    fn first_text_line(&self, item: &Item) -> Option<usize> {
+        let span = item.as_value()?.span()?;
+        let raw = &self.text[span.start..];
+        let opens_on_break = ["\"\"\"\n", "\"\"\"\r\n", "'''\n", "'''\r\n"]
+            .iter()
+            .any(|o| raw.starts_with(o));
+        Some(self.line(Some(span)) + usize::from(opens_on_break))
+    }
     fn key_line(&self, t: &Table, k: &str) -> usize {
         self.line(t.key(k).and_then(|k| k.span()))
     }
@@ -257,7 +267,7 @@ impl Ctx<'_> {
         match item.as_str() {
             Some(s) => Ok(Some(Item1 {
                 text: s.to_string(),
-                line,
+                line: self.first_text_line(item).unwrap_or(line),
             })),
             None => Err(self.err(line, format!("`{k}` must be a string"))),
         }
@@ -636,14 +646,6 @@ pub fn expand_name(name: &str, prefixes: &[(String, String)]) -> Option<String> 
         return Some(n.to_string());
     }
     None
-}
-
-/// `Prefix(...)` declarations for functional-syntax text, from the file's prefixes.
-pub fn prefix_header(prefixes: &[(String, String)]) -> String {
-    prefixes
-        .iter()
-        .map(|(k, v)| format!("Prefix({k}:=<{v}>)\n"))
-        .collect()
 }
 
 /// Shortens the full IRIs `<...>` of a functional-syntax text with the file's prefixes,

@@ -1,9 +1,10 @@
 //! `wherefore measure`: label maps to facts.
 
+use crate::facts::measure::measure;
 use crate::spatial::SpatialError;
 use crate::spatial::config::MeasureConfig;
 use crate::spatial::landscape::{Aggregate, LandscapeMode};
-use crate::spatial::measure::{MeasureOptions, PairSelection, measure};
+use crate::spatial::measure::{MeasureOptions, PairSelection};
 use crate::spatial::nifti_io::read_label_map;
 use crate::spatial::table::read_table;
 use clap::Args;
@@ -109,17 +110,11 @@ fn run_inner(args: &MeasureArgs) -> Result<(), SpatialError> {
         .collect::<Result<Vec<_>, _>>()?;
     let opts = MeasureOptions { config, pairs };
     let measured = measure(&maps, &rows, &args.labels.display().to_string(), &opts)?;
-    for w in &measured.warnings {
+    for w in &measured.geometry.warnings {
         eprintln!("wherefore measure: warning: {w}");
     }
     if let Some(dir) = &args.png {
-        crate::spatial::picture::write_pictures(
-            dir,
-            &maps[0],
-            &measured.regions,
-            &measured.facts,
-            &opts.config,
-        )?;
+        crate::spatial::picture::write_pictures(dir, &maps[0], &measured.geometry, &opts.config)?;
     }
     let json = measured.facts.to_json();
     match &args.out {

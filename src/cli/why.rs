@@ -17,8 +17,8 @@ pub struct WhyArgs {
     /// Knowledge-base ontology files.
     #[arg(required = true)]
     pub kb: Vec<PathBuf>,
-    /// An entailed axiom in functional syntax: SubClassOf, EquivalentClasses, ClassAssertion
-    /// or ObjectPropertyAssertion (full IRIs, or prefixes declared before it).
+    /// An entailed axiom: SubClassOf, EquivalentClasses, ClassAssertion or
+    /// ObjectPropertyAssertion, in Manchester or functional syntax with short names.
     #[arg(long, conflicts_with_all = ["unsat", "inconsistent"])]
     pub entailment: Option<String>,
     /// An unsatisfiable class (IRI). Without any target, every unsatisfiable class is
@@ -192,20 +192,18 @@ fn resolve_class(index: &crate::kb::names::EntityIndex, name: &str) -> Result<St
         .map(|(_, iri)| iri)
 }
 
-/// The entailment in functional syntax: given so (the files' prefixes are declared before
-/// it), or in the shell's Manchester syntax with its short names.
+/// The entailment in functional syntax with full IRIs, read as the shell reads it
+/// (Manchester or functional syntax, short names), with the files' prefixes declared
+/// before it.
 fn entailment_text(index: &crate::kb::names::EntityIndex, given: &str) -> Result<String, String> {
     let prefixes: String = index
         .prefixes
         .iter()
         .map(|(p, iri)| format!("Prefix({p}:=<{iri}>)\n"))
         .collect();
-    if crate::shell::syntax::functional_keyword(given).is_some() {
-        return Ok(format!("{prefixes}{given}"));
-    }
-    match crate::shell::syntax::parse_manchester(given, index, false) {
-        Ok(crate::shell::syntax::Statement::Axiom(a)) => Ok(format!("{prefixes}{a}")),
-        Ok(crate::shell::syntax::Statement::Class(_)) => Err(
+    match crate::kb::syntax::read_statement(given, index, false) {
+        Ok(crate::kb::syntax::Statement::Axiom(a)) => Ok(format!("{prefixes}{a}")),
+        Ok(crate::kb::syntax::Statement::Class(_)) => Err(
             "expected an axiom (A SubClassOf B, a Type C, a p b, or functional syntax), not a class expression".into(),
         ),
         Err(e) => Err(format!("{} (at character {})", e.message, e.offset + 1)),

@@ -323,6 +323,6 @@ pub fn axiom_ofn(kb: &KnowledgeBase, ax: &Axiom) -> String {
         Axiom::ClassAssertion(k, a) => {
             format!("ClassAssertion({} <{}>)", c(k), kb.vocab.individual_iri(a))
         }
-        _ => crate::render::dl_axiom(kb, ax),
+        _ => crate::kb::dl::dl_axiom(kb, ax),
     }
 }

@@ -2,6 +2,7 @@
 //! Field order and sorting follow the command-line contract (section `measure`).
 
 pub mod abox;
+pub mod measure;
 
 use serde::{Deserialize, Serialize};
 
@@ -163,7 +164,7 @@ pub fn read_facts(path: &std::path::Path) -> Result<Facts, String> {
     Ok(facts)
 }
 
-/// Measures label maps with their table (default settings of `spatial::measure`) and
+/// Measures label maps with their table (default settings of `measure`) and
 /// returns the facts; shared by batch `report` and `check` so both read maps the same way.
 pub fn from_label_maps(
     maps: &[std::path::PathBuf],
@@ -174,7 +175,7 @@ pub fn from_label_maps(
         .map(|p| crate::spatial::nifti_io::read_label_map(p).map_err(|e| e.to_string()))
         .collect::<Result<_, _>>()?;
     let rows = crate::spatial::table::read_table(labels).map_err(|e| e.to_string())?;
-    let m = crate::spatial::measure::measure(
+    let m = measure::measure(
         &maps,
         &rows,
         &labels.display().to_string(),

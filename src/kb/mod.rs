@@ -4,10 +4,12 @@
 pub mod concept;
 pub mod datarange;
 pub mod datatype;
+pub mod dl;
 pub mod error;
 pub mod load;
 pub mod names;
 pub mod owl;
+pub mod syntax;
 pub mod universal;
 
 pub use concept::{Concept, ConceptId, ConceptStore};

@@ -5,6 +5,17 @@
 //! labels).
 
 use crate::kb::{KnowledgeBase, OWL_NOTHING, OWL_THING};
+
+/// The object properties every ontology has (OWL 2 Structural Specification §5.3).
+const BUILT_IN_OBJECT: [&str; 2] = [
+    "http://www.w3.org/2002/07/owl#topObjectProperty",
+    "http://www.w3.org/2002/07/owl#bottomObjectProperty",
+];
+/// The data properties every ontology has.
+const BUILT_IN_DATA: [&str; 2] = [
+    "http://www.w3.org/2002/07/owl#topDataProperty",
+    "http://www.w3.org/2002/07/owl#bottomDataProperty",
+];
 use std::collections::BTreeMap;
 
 const RDFS_LABEL: &str = "http://www.w3.org/2000/01/rdf-schema#label";
@@ -121,7 +132,12 @@ impl EntityIndex {
     /// Whether an entity of this kind has this IRI.
     pub fn has(&self, iri: &str, kind: Kind) -> bool {
         self.by_iri.contains_key(&(iri.to_string(), kind))
-            || (kind == Kind::Class && (iri == OWL_THING || iri == OWL_NOTHING))
+            || match kind {
+                Kind::Class => iri == OWL_THING || iri == OWL_NOTHING,
+                Kind::ObjectProperty => BUILT_IN_OBJECT.contains(&iri),
+                Kind::DataProperty => BUILT_IN_DATA.contains(&iri),
+                Kind::Individual => false,
+            }
     }
 
     /// The kinds under which an IRI is known.
@@ -253,28 +269,12 @@ impl EntityIndex {
             .collect::<Vec<_>>()
             .join(" or ");
         match cands.len() {
-            0 => {
-                let near = self.near(name, kinds);
-                Err(format!(
-                    "unknown {wanted} `{name}`; {}",
-                    if near.is_empty() {
-                        "check the spelling, or write a prefixed name or a full IRI in <...>"
-                            .to_string()
-                    } else {
-                        format!(
-                            "did you mean {}?",
-                            near.iter()
-                                .map(|n| if n.starts_with('\'') {
-                                    n.clone()
-                                } else {
-                                    format!("`{n}`")
-                                })
-                                .collect::<Vec<_>>()
-                                .join(" or ")
-                        )
-                    }
-                ))
-            }
+            0 => Err(format!(
+                "unknown {wanted} `{name}`; {}",
+                self.did_you_mean(name, kinds).unwrap_or_else(|| {
+                    "check the spelling, or write a prefixed name or a full IRI in <...>".into()
+                })
+            )),
             1 => {
                 let e = &self.entities[cands[0]];
                 Ok((e.kind, e.iri.clone()))
@@ -291,6 +291,24 @@ impl EntityIndex {
                     .join(", ")
             )),
         }
+    }
+
+    /// "did you mean `A` or 'a label'?" with the names close to `name` (see `near`), if any.
+    pub fn did_you_mean(&self, name: &str, kinds: &[Kind]) -> Option<String> {
+        let near = self.near(name, kinds);
+        (!near.is_empty()).then(|| {
+            let quoted: Vec<String> = near
+                .iter()
+                .map(|n| {
+                    if n.starts_with('\'') {
+                        n.clone()
+                    } else {
+                        format!("`{n}`")
+                    }
+                })
+                .collect();
+            format!("did you mean {}?", quoted.join(" or "))
+        })
     }
 
     /// Names close to `name` among the wanted kinds: IRI fragments and labels within an

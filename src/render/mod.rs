@@ -10,7 +10,10 @@ pub mod words;
 use crate::explain::{Assertion, ExplainResult, Problem};
 use crate::facts::Facts;
 use crate::facts::abox::CaseAbox;
-use crate::kb::{Axiom, Concept, KnowledgeBase};
+use crate::kb::KnowledgeBase;
+/// Description-logic notation lives in `kb` (laconic justifications use it too).
+pub use crate::kb::dl::{dl_axiom, dl_concept};
+use crate::kb::names::fragment;
 use serde::Serialize;
 use words::Words;
 
@@ -620,153 +623,23 @@ fn formal_text(input: &ReportInput, expl: &[ReportExplanation]) -> String {
     s
 }
 
-fn short(iri: &str) -> String {
-    iri.rsplit(['#', '/'])
-        .next()
-        .filter(|x| !x.is_empty())
-        .unwrap_or(iri)
-        .to_string()
-}
-
-/// A concept in description-logic notation with short names.
-pub fn dl_concept(kb: &KnowledgeBase, c: crate::kb::ConceptId) -> String {
-    let cs = &kb.concepts;
-    let role = |r: crate::kb::RoleId| {
-        let n = short(kb.vocab.prop_iri(r.prop()));
-        if r.is_inverse() { format!("{n}⁻") } else { n }
-    };
-    let paren = |x: crate::kb::ConceptId| {
-        let t = dl_concept(kb, x);
-        if matches!(cs.get(x), Concept::And(_) | Concept::Or(_)) {
-            format!("({t})")
-        } else {
-            t
-        }
-    };
-    match cs.get(c) {
-        Concept::Top => "⊤".into(),
-        Concept::Bottom => "⊥".into(),
-        Concept::Atom(a) => short(kb.vocab.class_iri(*a)),
-        Concept::NotAtom(a) => format!("¬{}", short(kb.vocab.class_iri(*a))),
-        Concept::Nominal(i) => format!("{{{}}}", short(kb.vocab.individual_iri(*i))),
-        Concept::NotNominal(i) => format!("¬{{{}}}", short(kb.vocab.individual_iri(*i))),
-        Concept::And(xs) => xs.iter().map(|&x| paren(x)).collect::<Vec<_>>().join(" ⊓ "),
-        Concept::Or(xs) => xs.iter().map(|&x| paren(x)).collect::<Vec<_>>().join(" ⊔ "),
-        Concept::Some(r, x) => format!("∃{}.{}", role(*r), paren(*x)),
-        Concept::All(r, x) => format!("∀{}.{}", role(*r), paren(*x)),
-        Concept::AtLeast(n, r, x) => format!("≥{n} {}.{}", role(*r), paren(*x)),
-        Concept::AtMost(n, r, x) => format!("≤{n} {}.{}", role(*r), paren(*x)),
-        Concept::DataSome(p, d) => format!(
-            "∃{}.{}",
-            short(&kb.vocab.data_props[p.index()]),
-            words::range_text(kb.ranges.get(*d))
-        ),
-        Concept::DataAll(p, d) => format!(
-            "∀{}.{}",
-            short(&kb.vocab.data_props[p.index()]),
-            words::range_text(kb.ranges.get(*d))
-        ),
-        Concept::HasSelf(r) => format!("∃{}.Self", role(*r)),
-        Concept::NotSelf(r) => format!("¬∃{}.Self", role(*r)),
-        Concept::AllPath(r, q, x) => format!("∀{}[{q}].{}", role(*r), paren(*x)),
-        Concept::SomePath(r, q, x) => format!("∃{}[{q}].{}", role(*r), paren(*x)),
-        Concept::DataAtLeast(n, p, d) => format!(
-            "≥{n} {}.{}",
-            short(&kb.vocab.data_props[p.index()]),
-            words::range_text(kb.ranges.get(*d))
-        ),
-        Concept::DataAtMost(n, p, d) => format!(
-            "≤{n} {}.{}",
-            short(&kb.vocab.data_props[p.index()]),
-            words::range_text(kb.ranges.get(*d))
-        ),
-    }
-}
-
 /// An assertion in description-logic notation.
 pub fn dl_assertion(kb: &KnowledgeBase, a: &Assertion) -> String {
     match *a {
         Assertion::Class(c, i) => format!(
             "{}({})",
             dl_concept(kb, c),
-            short(kb.vocab.individual_iri(i))
+            fragment(kb.vocab.individual_iri(i))
         ),
         Assertion::Role(r, x, y) => {
             let (x, y) = if r.is_inverse() { (y, x) } else { (x, y) };
             format!(
                 "{}({}, {})",
-                short(kb.vocab.prop_iri(r.prop())),
-                short(kb.vocab.individual_iri(x)),
-                short(kb.vocab.individual_iri(y))
+                fragment(kb.vocab.prop_iri(r.prop())),
+                fragment(kb.vocab.individual_iri(x)),
+                fragment(kb.vocab.individual_iri(y))
             )
         }
-    }
-}
-
-/// An axiom in description-logic notation.
-pub fn dl_axiom(kb: &KnowledgeBase, a: &Axiom) -> String {
-    let c = |x| dl_concept(kb, x);
-    let role = |r: crate::kb::RoleId| {
-        let n = short(kb.vocab.prop_iri(r.prop()));
-        if r.is_inverse() { format!("{n}⁻") } else { n }
-    };
-    let ind = |i: crate::kb::IndividualId| short(kb.vocab.individual_iri(i));
-    match a {
-        Axiom::SubClass(x, y) => format!("{} ⊑ {}", c(*x), c(*y)),
-        Axiom::Equivalent(xs) => xs.iter().map(|&x| c(x)).collect::<Vec<_>>().join(" ≡ "),
-        Axiom::Disjoint(xs) => format!(
-            "disjoint({})",
-            xs.iter().map(|&x| c(x)).collect::<Vec<_>>().join(", ")
-        ),
-        Axiom::DisjointUnion(x, xs) => format!(
-            "{} ≡ {} (disjoint)",
-            c(*x),
-            xs.iter().map(|&x| c(x)).collect::<Vec<_>>().join(" ⊔ ")
-        ),
-        Axiom::SubRole(r, s) => format!("{} ⊑ {}", role(*r), role(*s)),
-        Axiom::Transitive(r) => format!("Trans({})", role(*r)),
-        Axiom::SubRoleChain(rs, s) => format!(
-            "{} ⊑ {}",
-            rs.iter().map(|&r| role(r)).collect::<Vec<_>>().join(" ∘ "),
-            role(*s)
-        ),
-        Axiom::Reflexive(r) => format!("Ref({})", role(*r)),
-        Axiom::Irreflexive(r) => format!("Irr({})", role(*r)),
-        Axiom::Asymmetric(r) => format!("Asy({})", role(*r)),
-        Axiom::DisjointRoles(rs) => format!(
-            "Dis({})",
-            rs.iter().map(|&r| role(r)).collect::<Vec<_>>().join(", ")
-        ),
-        Axiom::HasKey(x, rs, ps) => format!(
-            "key({}: {})",
-            c(*x),
-            rs.iter()
-                .map(|&r| role(r))
-                .chain(ps.iter().map(|p| short(&kb.vocab.data_props[p.index()])))
-                .collect::<Vec<_>>()
-                .join(", ")
-        ),
-        Axiom::Functional(r) => format!("⊤ ⊑ ≤1 {}.⊤", role(*r)),
-        Axiom::Domain(r, x) => format!("∃{}.⊤ ⊑ {}", role(*r), c(*x)),
-        Axiom::SubDataProp(p, q) => format!(
-            "{} ⊑ {}",
-            short(&kb.vocab.data_props[p.index()]),
-            short(&kb.vocab.data_props[q.index()])
-        ),
-        Axiom::FunctionalData(p) => format!("Func({})", short(&kb.vocab.data_props[p.index()])),
-        Axiom::DataDomain(p, x) => {
-            format!("∃{}.⊤ ⊑ {}", short(&kb.vocab.data_props[p.index()]), c(*x))
-        }
-        Axiom::DataRangeAxiom(p, d) => format!(
-            "⊤ ⊑ ∀{}.{}",
-            short(&kb.vocab.data_props[p.index()]),
-            words::range_text(kb.ranges.get(*d))
-        ),
-        Axiom::ClassAssertion(x, i) => format!("{}({})", c(*x), ind(*i)),
-        Axiom::RoleAssertion(r, i, j) => format!("{}({}, {})", role(*r), ind(*i), ind(*j)),
-        Axiom::NegativeRoleAssertion(r, i, j) => format!("¬{}({}, {})", role(*r), ind(*i), ind(*j)),
-        Axiom::Same(xs) => xs.iter().map(|&i| ind(i)).collect::<Vec<_>>().join(" = "),
-        Axiom::Different(xs) => xs.iter().map(|&i| ind(i)).collect::<Vec<_>>().join(" ≠ "),
     }
 }
 

@@ -9,11 +9,10 @@
 
 mod commands;
 mod save;
-pub mod syntax;
 
-/// Entity look-up by short name; it lives in `kb` so that the command line uses the same
-/// one.
-pub use crate::kb::names;
+/// Entity look-up by short name, and the typed-input syntax that uses it; both live in `kb`
+/// so that the command line and `check` read the same names.
+pub use crate::kb::{names, syntax};
 pub use commands::{COMMANDS, help_text};
 
 use crate::facts::Facts;

@@ -1,4 +1,6 @@
-//! The `measure` pipeline: label maps and a label table in, [`Facts`] out.
+//! The geometry of the `measure` pipeline: label maps and a label table in; regions and,
+//! per pair of the plan, its relations with degrees and its measurements out. The facts
+//! layer (`facts::measure`) writes them as a facts file.
 
 use super::SpatialError;
 use super::affine::round_to;
@@ -11,7 +13,6 @@ use super::rcc8::{Rcc8, relate_counted};
 use super::region::{Region, RegionSpec, build_regions};
 use super::structuring::{Direction, exact_degree};
 use super::table::{Role, TableRow};
-use crate::facts::{self, Facts, Individual, Measurement, Provenance, Relation, Source};
 use rayon::prelude::*;
 use std::collections::BTreeMap;
 
@@ -108,14 +109,51 @@ pub struct MeasureOptions {
     pub pairs: Vec<PairSelection>,
 }
 
-/// The result: facts, the regions they were measured on, and warnings for standard error.
-pub struct Measured {
-    /// The facts file content.
-    pub facts: Facts,
-    /// The regions (for pictures).
+/// What one ordered pair (subject, object) of the plan measured.
+#[derive(Clone, Debug)]
+pub struct PairValues {
+    /// The subject's index in `Geometry::regions`.
+    pub subject: usize,
+    /// The object's index in `Geometry::regions`.
+    pub object: usize,
+    /// Relations with their degrees (0 included), in the order measured.
+    pub relations: Vec<(String, f64)>,
+    /// Quantities with their values (infinite ones included), in the order measured.
+    pub measurements: Vec<(String, f64)>,
+}
+
+/// The result: the regions, the values of each pair, and what the method was.
+pub struct Geometry {
+    /// The regions, sorted by label value, map and id.
     pub regions: Vec<Region>,
+    /// Each pair of the plan, in plan order.
+    pub pairs: Vec<PairValues>,
     /// Warnings (labels not in the table and the like).
     pub warnings: Vec<String>,
+    /// The methods in words, for the provenance.
+    pub methods: Vec<String>,
+    /// The pair selections as written (`*>*` when none was given).
+    pub pair_texts: Vec<String>,
+}
+
+impl Geometry {
+    /// The relations that hold to a positive degree: (subject id, relation, object id,
+    /// degree), in pair order.
+    pub fn relations(&self) -> impl Iterator<Item = (&str, &str, &str, f64)> {
+        self.pairs.iter().flat_map(move |p| {
+            p.relations
+                .iter()
+                .filter(|(_, d)| *d > 0.0)
+                .map(move |(name, d)| {
+                    (
+                        self.regions[p.subject].id.as_str(),
+                        name.as_str(),
+                        self.regions[p.object].id.as_str(),
+                        *d,
+                    )
+                })
+        })
+    }
 }
 
 /// Resolves the table against the maps: one spec per row, in table order.
@@ -225,13 +263,13 @@ struct PairOut {
     measurements: Vec<(String, f64)>,
 }
 
-/// Runs the full measurement.
-pub fn measure(
+/// Measures the regions of the label maps and every pair of the plan.
+pub fn measure_regions(
     maps: &[LabelMap],
     rows: &[TableRow],
     table_file: &str,
     opts: &MeasureOptions,
-) -> Result<Measured, SpatialError> {
+) -> Result<Geometry, SpatialError> {
     if maps.is_empty() {
         return Err(SpatialError::Usage("no label map given".into()));
     }
@@ -570,91 +608,35 @@ pub fn measure(
         })
         .collect();
 
-    let mut relations = Vec::new();
-    let mut measurements = Vec::new();
-    for ((a, b), out) in per {
-        for (name, degree) in out.relations {
-            if degree > 0.0 {
-                relations.push(Relation {
-                    subject: regions[a].id.clone(),
-                    relation: name,
-                    object: regions[b].id.clone(),
-                    degree,
-                });
-            }
-        }
-        for (name, value) in out.measurements {
-            if value.is_finite() {
-                measurements.push(Measurement {
-                    subject: regions[a].id.clone(),
-                    object: regions[b].id.clone(),
-                    quantity: name,
-                    value,
-                });
-            }
-        }
-    }
-
-    let individuals = regions
-        .iter()
-        .map(|r| Individual {
-            id: r.id.clone(),
-            class: r.class.clone(),
-            label_value: r.value,
-            voxels: r.voxels,
-            volume_ml: round_to(r.volume_ml, 1e6),
-            centroid_mm: r.centroid_mm.map(|v| round_to(v, 1e4)),
-            bbox_mm: r.bbox_mm.map(|c| c.map(|v| round_to(v, 1e4))),
-            map: r.map_name.clone(),
-            role: match r.role {
-                Role::Anatomy => "anatomy".into(),
-                Role::Finding => "finding".into(),
-            },
-            extent_voxels: r.extent_voxels,
-            largest_diameter_mm: round_to(r.largest_diameter_mm, 1e4),
+    let pairs = per
+        .into_iter()
+        .map(|((subject, object), out)| PairValues {
+            subject,
+            object,
+            relations: out.relations,
+            measurements: out.measurements,
         })
         .collect();
-
-    let provenance = Provenance {
-        tool: "wherefore".into(),
-        version: env!("CARGO_PKG_VERSION").into(),
-        affine_source: format!("{:?}", maps[0].affine_source).to_lowercase(),
-        methods: vec![
-            "directional: fuzzy morphological dilation, structuring element max(0, 1 - 2*angle/pi) in RAS mm (Bloch 1999, IEEE TPAMI 21(7))".into(),
-            format!(
-                "directional landscape: {}; degrees aggregated over the subject's voxels outside the object's extent by {}",
-                match dir_cfg.landscape {
-                    LandscapeMode::Exact => "exact (max over every reference voxel)",
-                    LandscapeMode::Fast => "two-pass propagation, 13 causal neighbours per pass",
-                },
-                format!("{:?}", dir_cfg.aggregate).to_lowercase()
-            ),
-            "distances: exact Euclidean distance transform with voxel spacing (Felzenszwalb & Huttenlocher 2012), between voxel centres".into(),
-            "near, far, peripheral_in, deep_in: trapezoidal fuzzy sets over millimetres".into(),
-            format!("topology: RCC-8 on extents (3D hole filling, background 6-connected), {}-adjacency (Randell, Cui & Cohn 1992)", adjacency.number()),
-        ],
-        parameters: serde_json::to_value(opts.config).unwrap_or(serde_json::Value::Null),
-        pairs: selections.iter().map(|s| s.text.clone()).collect(),
-    };
-
-    let mut facts = Facts {
-        format: facts::FORMAT.into(),
-        version: facts::VERSION,
-        source: Source {
-            files: maps.iter().map(|m| m.name.clone()).collect(),
-            shape: maps[0].shape,
-            affine: affine.rounded(),
-        },
-        individuals,
-        relations,
-        measurements,
-        provenance: Some(provenance),
-    };
-    facts.sort();
-    Ok(Measured {
-        facts,
+    let methods = vec![
+        "directional: fuzzy morphological dilation, structuring element max(0, 1 - 2*angle/pi) in RAS mm (Bloch 1999, IEEE TPAMI 21(7))".into(),
+        format!(
+            "directional landscape: {}; degrees aggregated over the subject's voxels outside the object's extent by {}",
+            match dir_cfg.landscape {
+                LandscapeMode::Exact => "exact (max over every reference voxel)",
+                LandscapeMode::Fast => "two-pass propagation, 13 causal neighbours per pass",
+            },
+            format!("{:?}", dir_cfg.aggregate).to_lowercase()
+        ),
+        "distances: exact Euclidean distance transform with voxel spacing (Felzenszwalb & Huttenlocher 2012), between voxel centres".into(),
+        "near, far, peripheral_in, deep_in: trapezoidal fuzzy sets over millimetres".into(),
+        format!("topology: RCC-8 on extents (3D hole filling, background 6-connected), {}-adjacency (Randell, Cui & Cohn 1992)", adjacency.number()),
+        ];
+    Ok(Geometry {
         regions,
+        pairs,
         warnings,
+        methods,
+        pair_texts: selections.iter().map(|s| s.text.clone()).collect(),
     })
 }
 

@@ -1,5 +1,6 @@
 //! Volumes, affines, distance transforms, fuzzy landscapes, RCC-8 and region metrics: the
-//! `measure` pipeline from NIfTI label maps to [`crate::facts::Facts`]. Knows nothing of OWL.
+//! geometry of the `measure` pipeline, from NIfTI label maps to regions and the values of
+//! each pair (`facts::measure` writes them as facts). Knows nothing of OWL or of facts.
 
 pub mod affine;
 pub mod config;

@@ -6,45 +6,45 @@ use super::SpatialError;
 use super::config::MeasureConfig;
 use super::landscape::FastLandscape;
 use super::mask::Mask;
+use super::measure::Geometry;
 use super::nifti_io::LabelMap;
 use super::region::Region;
 use super::structuring::Direction;
 use super::table::Role;
-use crate::facts::Facts;
 use std::path::Path;
 
 /// Writes `<id>_axial.png` and `<id>_coronal.png` for every finding into `dir`.
 pub fn write_pictures(
     dir: &Path,
     grid: &LabelMap,
-    regions: &[Region],
-    facts: &Facts,
+    geometry: &Geometry,
     config: &MeasureConfig,
 ) -> Result<(), SpatialError> {
+    let regions = &geometry.regions;
     let werr = |p: &Path, e: String| SpatialError::Write {
         file: p.display().to_string(),
         message: e,
     };
     std::fs::create_dir_all(dir).map_err(|e| werr(dir, e.to_string()))?;
     for lesion in regions.iter().filter(|r| r.role == Role::Finding) {
-        // The strongest directional relation with the lesion as subject.
-        let best = facts
-            .relations
-            .iter()
-            .filter(|r| r.subject == lesion.id)
-            .filter_map(|r| {
+        // The strongest directional relation with the lesion as subject; among equals the
+        // first object, and for one object the last relation by name.
+        let mut directional: Vec<(&str, &str, f64, Direction)> = geometry
+            .relations()
+            .filter(|r| r.0 == lesion.id)
+            .filter_map(|(_, relation, object, degree)| {
                 Direction::ALL
                     .iter()
-                    .find(|d| d.relation() == r.relation)
-                    .map(|d| (r, *d))
+                    .find(|d| d.relation() == relation)
+                    .map(|d| (object, relation, degree, *d))
             })
-            .max_by(|a, b| {
-                a.0.degree
-                    .total_cmp(&b.0.degree)
-                    .then_with(|| b.0.object.cmp(&a.0.object))
-            });
-        let heat = best.and_then(|(r, d)| {
-            let obj = regions.iter().find(|x| x.id == r.object)?;
+            .collect();
+        directional.sort_by(|a, b| (a.0, a.1).cmp(&(b.0, b.1)));
+        let best = directional
+            .into_iter()
+            .max_by(|a, b| a.2.total_cmp(&b.2).then_with(|| b.0.cmp(a.0)));
+        let heat = best.and_then(|(object, _, _, d)| {
+            let obj = regions.iter().find(|x| x.id == object)?;
             let dims = grid.shape;
             Some(FastLandscape::compute_coarse(
                 &obj.extent,

@@ -13,14 +13,7 @@ pub(super) fn read_input(
     if text.trim().is_empty() {
         return Err(l.err("expected an axiom or a class expression", off));
     }
-    if let Some(kw) = syntax::functional_keyword(text) {
-        return Ok(if syntax::is_class_constructor(kw) {
-            Input::Class(text.to_string())
-        } else {
-            Input::Axioms(text.to_string())
-        });
-    }
-    match syntax::parse_manchester(text, &s.names, allow_new) {
+    match syntax::read_statement(text, &s.names, allow_new) {
         Ok(Statement::Axiom(a)) => Ok(Input::Axioms(a)),
         Ok(Statement::Class(c)) => Ok(Input::Class(c)),
         Err(e) => Err(l.err(e.message, off + e.offset)),
@@ -121,6 +114,8 @@ pub(super) fn load_text(
         ]
         .into_iter()
         .flat_map(|(k, v)| v.into_iter().map(move |i| (k, i)))
+        // `_:` names are anonymous individuals and the universal role's hidden hub.
+        .filter(|(_, iri)| !iri.starts_with("_:"))
         .collect();
         if let Some((k, iri)) = new.first() {
             let short = s.names.short(iri);

@@ -1,6 +1,6 @@
-//! The shell's input syntax: class expressions and simple axioms in the OWL 2 Manchester
-//! syntax (W3C Working Group Note, 2012), parsed by recursive descent and written out in
-//! OWL 2 functional syntax with full IRIs, so that the knowledge-base layer does the rest.
+//! Class expressions and simple axioms in the OWL 2 Manchester syntax (W3C Working Group
+//! Note, 2012), parsed by recursive descent and written out in OWL 2 functional syntax with
+//! full IRIs, so that the loader does the rest.
 //!
 //! Supported: `and`, `or`, `not`, `some`, `only`, `value`, `min`, `max`, `exactly`,
 //! `inverse p`, `{a, b}`, parentheses, `that` (as `and`); data restrictions `d some xsd:T`,
@@ -8,145 +8,11 @@
 //! `C DisjointWith D`, `a Type C`, `a SameAs b`, `a DifferentFrom b`,
 //! `p SubPropertyOf q`, and `a p b` (`a d 3.5` for a data property).
 
-use super::names::{EntityIndex, Kind};
+use super::tokens::{Tok, Token, tokenize};
+use super::{ParseError, Statement, entity, err};
+use crate::kb::names::{EntityIndex, Kind};
 
 const XSD: &str = "http://www.w3.org/2001/XMLSchema#";
-
-/// A syntax error at a byte offset of the input.
-#[derive(Clone, Debug, PartialEq, Eq)]
-pub struct ParseError {
-    /// Byte offset into the parsed text.
-    pub offset: usize,
-    /// What is wrong and what to do.
-    pub message: String,
-}
-
-#[derive(Clone, Debug, PartialEq)]
-enum Tok {
-    Word(String),
-    Iri(String),
-    Quoted(String),
-    Number(String),
-    Str(String),
-    Punct(char),
-    Op(String),
-}
-
-#[derive(Clone, Debug)]
-struct Token {
-    tok: Tok,
-    at: usize,
-}
-
-fn err<T>(at: usize, message: impl Into<String>) -> Result<T, ParseError> {
-    Err(ParseError {
-        offset: at,
-        message: message.into(),
-    })
-}
-
-fn tokenize(s: &str) -> Result<Vec<Token>, ParseError> {
-    let b = s.as_bytes();
-    let mut out = Vec::new();
-    let mut i = 0;
-    while i < b.len() {
-        let c = s[i..].chars().next().unwrap_or(' ');
-        if c.is_whitespace() {
-            i += c.len_utf8();
-            continue;
-        }
-        let start = i;
-        match c {
-            '(' | ')' | '{' | '}' | ',' | '[' | ']' => {
-                out.push(Token {
-                    tok: Tok::Punct(c),
-                    at: start,
-                });
-                i += 1;
-            }
-            '<' | '>' | '=' => {
-                // `<` opens an IRI when a `>` closes it before any space; else a facet.
-                if c == '<' {
-                    let rest = &s[i + 1..];
-                    let end = rest.find(|ch: char| ch == '>' || ch.is_whitespace());
-                    if let Some(e) = end
-                        && rest.as_bytes().get(e) == Some(&b'>')
-                        && e > 0
-                        && !rest.starts_with('=')
-                    {
-                        out.push(Token {
-                            tok: Tok::Iri(rest[..e].to_string()),
-                            at: start,
-                        });
-                        i += e + 2;
-                        continue;
-                    }
-                }
-                let mut op = c.to_string();
-                i += 1;
-                if s[i..].starts_with('=') {
-                    op.push('=');
-                    i += 1;
-                }
-                out.push(Token {
-                    tok: Tok::Op(op),
-                    at: start,
-                });
-            }
-            '\'' | '"' => {
-                let rest = &s[i + 1..];
-                let Some(e) = rest.find(c) else {
-                    return err(
-                        start,
-                        format!("unclosed quote {c}; close it with a matching {c}"),
-                    );
-                };
-                let text = rest[..e].to_string();
-                out.push(Token {
-                    tok: if c == '\'' {
-                        Tok::Quoted(text)
-                    } else {
-                        Tok::Str(text)
-                    },
-                    at: start,
-                });
-                i += e + 2;
-            }
-            _ if c.is_alphanumeric() || "_:-.+#/".contains(c) => {
-                let mut j = i;
-                for ch in s[i..].chars() {
-                    if ch.is_alphanumeric() || "_:-.+#/".contains(ch) {
-                        j += ch.len_utf8();
-                    } else {
-                        break;
-                    }
-                }
-                let w = &s[i..j];
-                let numeric = w
-                    .trim_start_matches(['+', '-'])
-                    .chars()
-                    .all(|ch| ch.is_ascii_digit() || ch == '.')
-                    && w.chars().any(|ch| ch.is_ascii_digit());
-                out.push(Token {
-                    tok: if numeric {
-                        Tok::Number(w.to_string())
-                    } else {
-                        Tok::Word(w.to_string())
-                    },
-                    at: start,
-                });
-                i = j;
-            }
-            _ => {
-                return err(
-                    start,
-                    format!("unexpected character `{c}`; names are words, 'labels' or <IRIs>"),
-                );
-            }
-        }
-    }
-    Ok(out)
-}
 
 const RESTRICTION_WORDS: [&str; 7] = ["some", "only", "value", "min", "max", "exactly", "Self"];
 const AXIOM_WORDS: [&str; 8] = [
@@ -159,15 +25,6 @@ const AXIOM_WORDS: [&str; 8] = [
     "DifferentFrom",
     "SubPropertyOf",
 ];
-
-/// What a line of Manchester syntax says.
-#[derive(Clone, Debug, PartialEq, Eq)]
-pub enum Statement {
-    /// One axiom, in functional syntax with full IRIs.
-    Axiom(String),
-    /// A class expression, in functional syntax with full IRIs.
-    Class(String),
-}
 
 struct Parser<'a> {
     toks: Vec<Token>,
@@ -222,22 +79,7 @@ impl Parser<'_> {
                 );
             }
         };
-        let (kind, iri) = self
-            .names
-            .resolve(&text, kinds)
-            .map_err(|message| ParseError {
-                offset: at,
-                message,
-            })?;
-        if !self.allow_new && !self.names.has(&iri, kind) {
-            return err(
-                at,
-                format!(
-                    "unknown {} <{iri}>; it does not occur in the knowledge base",
-                    kind.word()
-                ),
-            );
-        }
+        let (kind, iri) = entity(self.names, &text, kinds, self.allow_new, at)?;
         self.pos += 1;
         Ok((kind, iri))
     }
@@ -587,7 +429,7 @@ fn describe(t: &Tok) -> String {
         Tok::Number(n) => format!("the number {n}"),
         Tok::Str(s) => format!("\"{s}\""),
         Tok::Punct(c) => format!("`{c}`"),
-        Tok::Op(o) => format!("`{o}`"),
+        Tok::Op(o) | Tok::Suffix(o) => format!("`{o}`"),
     }
 }
 
@@ -612,110 +454,14 @@ pub fn parse_manchester(
     p.statement()
 }
 
-/// OWL 2 functional-syntax keywords that start an axiom or a class expression.
-const FUNCTIONAL: [&str; 48] = [
-    "Prefix",
-    "Declaration",
-    "SubClassOf",
-    "EquivalentClasses",
-    "DisjointClasses",
-    "DisjointUnion",
-    "ClassAssertion",
-    "ObjectPropertyAssertion",
-    "NegativeObjectPropertyAssertion",
-    "DataPropertyAssertion",
-    "NegativeDataPropertyAssertion",
-    "SameIndividual",
-    "DifferentIndividuals",
-    "SubObjectPropertyOf",
-    "EquivalentObjectProperties",
-    "DisjointObjectProperties",
-    "InverseObjectProperties",
-    "ObjectPropertyDomain",
-    "ObjectPropertyRange",
-    "FunctionalObjectProperty",
-    "InverseFunctionalObjectProperty",
-    "ReflexiveObjectProperty",
-    "IrreflexiveObjectProperty",
-    "SymmetricObjectProperty",
-    "AsymmetricObjectProperty",
-    "TransitiveObjectProperty",
-    "SubDataPropertyOf",
-    "EquivalentDataProperties",
-    "DataPropertyDomain",
-    "DataPropertyRange",
-    "FunctionalDataProperty",
-    "HasKey",
-    "AnnotationAssertion",
-    "ObjectIntersectionOf",
-    "ObjectUnionOf",
-    "ObjectComplementOf",
-    "ObjectOneOf",
-    "ObjectSomeValuesFrom",
-    "ObjectAllValuesFrom",
-    "ObjectHasValue",
-    "ObjectHasSelf",
-    "ObjectMinCardinality",
-    "ObjectMaxCardinality",
-    "ObjectExactCardinality",
-    "DataSomeValuesFrom",
-    "DataAllValuesFrom",
-    "DataHasValue",
-    "DatatypeDefinition",
-];
-
-/// Whether the text is written in functional syntax (it starts with one of its keywords
-/// and a parenthesis); returns the keyword.
-pub fn functional_keyword(text: &str) -> Option<&'static str> {
-    let t = text.trim_start();
-    let word: String = t.chars().take_while(|c| c.is_ascii_alphabetic()).collect();
-    let after = t[word.len()..].trim_start();
-    if !after.starts_with('(') {
-        return None;
-    }
-    FUNCTIONAL.iter().find(|k| **k == word).copied()
-}
-
-/// Whether a functional-syntax keyword starts a class expression rather than an axiom.
-pub fn is_class_constructor(word: &str) -> bool {
-    (word.starts_with("Object") && !word.contains("Property"))
-        || (word.starts_with("Data") && !word.contains("Property") && word != "DatatypeDefinition")
-}
-
-/// Whether parentheses, braces and brackets are balanced outside quotes (the shell keeps
-/// reading lines until they are).
-pub fn balanced(text: &str) -> bool {
-    let mut depth: i64 = 0;
-    let mut quote: Option<char> = None;
-    for c in text.chars() {
-        match quote {
-            Some(q) if c == q => quote = None,
-            Some(_) => {}
-            None => match c {
-                '"' => quote = Some(c),
-                '(' | '{' | '[' => depth += 1,
-                ')' | '}' | ']' => depth -= 1,
-                _ => {}
-            },
-        }
-    }
-    depth <= 0 && quote.is_none()
-}
-
 #[cfg(test)]
 mod tests {
     use super::*;
-    use crate::kb::load;
 
     fn index() -> EntityIndex {
-        let mut kb = crate::kb::KnowledgeBase::new();
-        load::load_axioms_text(
-            &mut kb,
-            "t",
+        crate::kb::syntax::tests::index_of(
             "Prefix(:=<http://ex.org/t#>)\nSubClassOf(:A :B)\nObjectPropertyAssertion(:r :a :b)\nAnnotationAssertion(rdfs:label :A \"apple tree\")\nDataPropertyAssertion(:d :a \"1\"^^xsd:integer)",
         )
-        .unwrap();
-        EntityIndex::new(&kb, vec![(String::new(), "http://ex.org/t#".into())])
     }
 
     #[test]
@@ -769,12 +515,5 @@ mod tests {
             parse_manchester("r Self", &ix, false).unwrap(),
             Statement::Class("ObjectHasSelf(<http://ex.org/t#r>)".into())
         );
-    }
-
-    #[test]
-    fn balance() {
-        assert!(!balanced("A and (B or"));
-        assert!(balanced("A and (B or C)"));
-        assert!(balanced("\"(\" x"));
     }
 }

@@ -613,7 +613,7 @@ pub fn parse_manchester(
 }
 
 /// OWL 2 functional-syntax keywords that start an axiom or a class expression.
-const FUNCTIONAL: [&str; 48] = [
+const FUNCTIONAL: [&str; 49] = [
     "Prefix",
     "Declaration",
     "SubClassOf",
@@ -642,6 +642,7 @@ const FUNCTIONAL: [&str; 48] = [
     "TransitiveObjectProperty",
     "SubDataPropertyOf",
     "EquivalentDataProperties",
+    "DisjointDataProperties",
     "DataPropertyDomain",
     "DataPropertyRange",
     "FunctionalDataProperty",

@@ -31,7 +31,12 @@ with the object constructs above, over the data ranges of scripts/gen_data.py (n
 interval facets, strings with length and pattern facets, booleans, dateTime with a
 timezone, doubles, enumerations, complements, unions, intersections); functional data
 properties, data ranges, domains and sub-data-properties; data assertions in the ABox; and,
-with weight `key`, HasKey axioms over object and data properties.
+with weight `key`, HasKey axioms over object and data properties. With weight `ddisjoint`, a
+DisjointDataProperties axiom (at least two data properties then), and in most such files a
+planted meeting of values of two disjoint properties at one individual: one literal, two
+spellings of one value (`"2"^^xsd:integer` and `"2.0"^^xsd:decimal`, two time zones of one
+instant) or two values that only look alike (`"1"^^xsd:integer` and `"1.0"^^xsd:double`), in
+assertions or in class expressions, or counts over a small range.
 
 Not generated: owl:topObjectProperty/bottomObjectProperty, datatype definitions.
 
@@ -79,7 +84,31 @@ DEFAULTS = {
     "key": 0.0,          # chance per ontology of a HasKey axiom (object and data properties)
     "abox": 1.0,         # 0 leaves out the random ABox (planted key assertions stay)
     "universal": 0,      # relative weight of ∃ and ∀ on owl:topObjectProperty (each)
+    "ddisjoint": 0.0,    # chance per ontology of DisjointDataProperties (and planted meetings)
 }
+
+# Pairs of literals for planted meetings of disjoint data properties: one value written twice,
+# or two values in different value spaces (OWL 2 Structural Specification §4).
+LITERAL_TWINS = [
+    ('"2"^^xsd:integer', '"2"^^xsd:integer'),
+    ('"2"^^xsd:integer', '"02"^^xsd:integer'),
+    ('"2"^^xsd:integer', '"2.0"^^xsd:decimal'),
+    ('"1"^^xsd:integer', '"1.0"^^xsd:double'),
+    ('"1"^^xsd:integer', '"1"'),
+    ('"a"', '"a"^^xsd:string'),
+    ('"a"', '"a"@en'),
+    ('"true"^^xsd:boolean', '"1"^^xsd:boolean'),
+    ('"2020-01-01T00:00:00Z"^^xsd:dateTime', '"2020-01-01T01:00:00+01:00"^^xsd:dateTime'),
+    ('"0F"^^xsd:hexBinary', '"0f"^^xsd:hexBinary'),
+]
+
+# Small ranges for planted counts over disjoint properties.
+SMALL_RANGES = [
+    "xsd:boolean",
+    'DataOneOf("a" "b" "c")',
+    "DatatypeRestriction(xsd:integer xsd:minInclusive \"1\"^^xsd:integer xsd:maxInclusive \"3\"^^xsd:integer)",
+    "DatatypeRestriction(xsd:integer xsd:minInclusive \"1\"^^xsd:integer xsd:maxInclusive \"4\"^^xsd:integer)",
+]
 
 
 class Gen:
@@ -119,6 +148,9 @@ class Gen:
         self.max_depth = rng.choice([1, 2, 2, 3])
         # Drawn last, and only with --data, so that the other modes stay byte-identical.
         self.dprops = [":d%d" % i for i in range(rng.randint(1, 3))] if data else []
+        if data and self.w["ddisjoint"] > 0 and len(self.dprops) < 2:
+            self.dprops.append(":d1")
+        self.ddisjoint = []
 
     def free(self):
         return [p for p in self.props if p not in self.simple]
@@ -319,6 +351,8 @@ class Gen:
         if len(self.dprops) >= 2 and rng.random() < self.w["dsub"]:
             a, b = rng.sample(self.dprops, 2)
             self.axioms.append("SubDataPropertyOf(%s %s)" % (a, b))
+        if self.w["ddisjoint"] and rng.random() < self.w["ddisjoint"]:
+            self.disjoint_data()
         if rng.random() < self.w["key"]:
             c = self.expr(1) if rng.random() < 0.3 else rng.choice(self.classes)
             # Keys take simple object properties (as wherefore asks) and data properties.
@@ -327,8 +361,42 @@ class Gen:
             self.axioms.append("HasKey(%s (%s) (%s))" % (c, " ".join(rs), " ".join(ds)))
             self.key = (c, rs, ds)
 
+    def disjoint_data(self):
+        """DisjointDataProperties over two or three data properties and, in most files, values
+        of two of them planted to meet at one element of a class (the ABox ones come later)."""
+        rng = self.rng
+        ds = rng.sample(self.dprops, min(len(self.dprops), rng.choice([2, 2, 3])))
+        self.ddisjoint = ds
+        self.axioms.append("DisjointDataProperties(%s)" % " ".join(ds))
+        if self.n_classes < 1 or rng.random() >= 0.6:
+            return
+        p, q = rng.sample(ds, 2)
+        c = rng.choice(self.classes)
+        t = rng.randint(0, 2)
+        if t == 0:  # two literals that may be one value
+            v, w = rng.choice(LITERAL_TWINS)
+            self.axioms.append("SubClassOf(%s ObjectIntersectionOf(DataHasValue(%s %s) DataHasValue(%s %s)))"
+                               % (c, p, v, q, w))
+        elif t == 1:  # a value against a range that may hold it
+            v, w = rng.choice(LITERAL_TWINS)
+            r = rng.choice(["DataOneOf(%s)" % w, "DataOneOf(%s %s)" % (w, rng.choice(gen_data.LITERALS)),
+                            gen_data.data_range(rng)])
+            self.axioms.append("SubClassOf(%s DataHasValue(%s %s))" % (c, p, v))
+            self.axioms.append("SubClassOf(%s DataSomeValuesFrom(%s %s))" % (c, q, r))
+        else:  # counts over a small range: n + m values, none shared
+            r = rng.choice(SMALL_RANGES)
+            n, m = rng.randint(1, 2), rng.randint(1, 2)
+            self.axioms.append("SubClassOf(%s ObjectIntersectionOf(DataMinCardinality(%d %s %s) "
+                               "DataMinCardinality(%d %s %s)))" % (c, n, p, r, m, q, r))
+
     def data_abox(self):
         rng = self.rng
+        if len(self.ddisjoint) >= 2 and self.inds and rng.random() < 0.6:
+            p, q = rng.sample(self.ddisjoint, 2)
+            v, w = rng.choice(LITERAL_TWINS)
+            a = rng.choice(self.inds)
+            self.axioms.append("DataPropertyAssertion(%s %s %s)" % (p, a, v))
+            self.axioms.append("DataPropertyAssertion(%s %s %s)" % (q, a, w))
         if getattr(self, "key", None) and len(self.inds) >= 2 and rng.random() < 0.7:
             self.planted_key()
         for a in self.inds:

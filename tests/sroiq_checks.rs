@@ -1,6 +1,6 @@
 //! Hand-derived reasoning checks for the constructs beyond SHIQ: property chains, self
-//! restrictions, reflexive, irreflexive, asymmetric and disjoint properties, keys (on object
-//! and data properties), nominals
+//! restrictions, reflexive, irreflexive, asymmetric and disjoint properties (object and data),
+//! keys (on object and data properties), nominals
 //! anywhere in the TBox, and the top and bottom properties. Each `.ofn` under
 //! tests/fixtures/sroiq/ carries its source and derivation in its header comment; HermiT
 //! 1.3.8 (owlready2 0.51) agrees on every file but `key-complex-class`, whose comment says
@@ -81,6 +81,17 @@ sroiq! {
     universal_role_with_facts: "universal-abox";
     universal_role_inconsistent: "universal-inconsistent";
     bottom_data_property: "bottom-data";
+    // Disjoint data properties: one literal may not be a value of both at one individual.
+    disjoint_data_equal_asserted_values: "disjoint-data-asserted";
+    disjoint_data_equal_values_written_differently: "disjoint-data-lexical";
+    disjoint_data_integer_and_decimal_are_one_value: "disjoint-data-decimal";
+    disjoint_data_different_value_spaces: "disjoint-data-spaces";
+    disjoint_data_through_sub_property: "disjoint-data-subproperty";
+    disjoint_data_restrictions: "disjoint-data-restrictions";
+    disjoint_data_counting: "disjoint-data-counting";
+    disjoint_data_entailed_subsumption: "disjoint-data-subsumption";
+    // The joint check of key members' values respects the disjointness.
+    key_data_with_disjoint_property: "key-data-disjoint";
 }
 
 /// horned-owl reads every fixture here completely, so a failure above is never a parse gap.
@@ -95,7 +106,7 @@ fn sroiq_fixtures_parse_with_horned_owl() {
             n += 1;
         }
     }
-    assert_eq!(n, 28);
+    assert_eq!(n, 37);
 }
 
 /// A cycle among datatype definitions is outside OWL 2 DL (Structural Specification §11.2):

@@ -118,6 +118,13 @@ pub fn dl_axiom(kb: &KnowledgeBase, a: &Axiom) -> String {
             short(&kb.vocab.data_props[q.index()])
         ),
         Axiom::FunctionalData(p) => format!("Func({})", short(&kb.vocab.data_props[p.index()])),
+        Axiom::DisjointDataProps(ps) => format!(
+            "Dis({})",
+            ps.iter()
+                .map(|p| short(&kb.vocab.data_props[p.index()]))
+                .collect::<Vec<_>>()
+                .join(", ")
+        ),
         Axiom::DataDomain(p, x) => {
             format!("∃{}.⊤ ⊑ {}", short(&kb.vocab.data_props[p.index()]), c(*x))
         }

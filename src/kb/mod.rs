@@ -172,6 +172,8 @@ pub enum Axiom {
     SubDataProp(DataPropId, DataPropId),
     /// p is a functional data property.
     FunctionalData(DataPropId),
+    /// The data properties are pairwise disjoint: no individual has one value for two of them.
+    DisjointDataProps(Vec<DataPropId>),
     /// Domain of a data property: ∃p.⊤ ⊑ C.
     DataDomain(DataPropId, ConceptId),
     /// Range of a data property: ⊤ ⊑ ∀p.D.

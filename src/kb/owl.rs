@@ -399,8 +399,10 @@ impl Converter<'_> {
                 }
                 Ok(true)
             }
-            C::DisjointDataProperties(_) => {
-                Err("disjoint data properties are not supported".into())
+            C::DisjointDataProperties(ax) => {
+                let ps: Vec<_> = ax.0.iter().map(|p| self.kb.vocab.data_prop(&p.0)).collect();
+                self.kb.push(Axiom::DisjointDataProps(ps), src);
+                Ok(true)
             }
             C::DataPropertyDomain(ax) => {
                 let p = self.kb.vocab.data_prop(&ax.dp.0);

@@ -14,6 +14,11 @@
 //! [`check_joint`] asks the same question of several nodes at once, for keys over data
 //! properties: each need and cap has an owner (a node), a cap counts only its owner's values,
 //! and an [`Apart`] pair forbids one value from being a key property's value of both nodes.
+//!
+//! Disjoint data properties (OWL 2 Direct Semantics, §2.3.3, Table 8, `DisjointDataProperties`: no
+//! individual has one literal as a value of two of them) forbid a class from holding values
+//! of one owner for two properties under a disjoint pair, and a need whose property lies
+//! under both properties of a pair from having any value.
 
 use crate::kb::DataPropId;
 use crate::kb::datarange::DataRange;
@@ -65,6 +70,15 @@ pub struct Apart {
     pub prop: DataPropId,
 }
 
+/// What the search knows of the data properties.
+#[derive(Clone, Copy)]
+pub struct Props<'a> {
+    /// `sub(p, q)`: p ⊑* q.
+    pub sub: &'a dyn Fn(DataPropId, DataPropId) -> bool,
+    /// Pairs of properties declared disjoint (in either order).
+    pub disjoint: &'a [(DataPropId, DataPropId)],
+}
+
 struct Class {
     range: DataRange,
     groups: Vec<u32>,
@@ -83,24 +97,20 @@ struct Search<'a> {
     /// The [`Apart`] pairs by owners, in both orientations: the key properties.
     apart: HashMap<(u32, u32), Vec<DataPropId>>,
     applies: &'a dyn Fn(DataPropId, DataPropId) -> bool,
+    disjoint: &'a [(DataPropId, DataPropId)],
     budget: u64,
 }
 
-/// Decides whether the needs and caps have a model; `applies(p, q)` says p ⊑* q. Works at
-/// most `budget` steps.
-pub fn check(
-    needs: &[Need],
-    caps: &[Cap],
-    applies: &dyn Fn(DataPropId, DataPropId) -> bool,
-    budget: u64,
-) -> Verdict {
+/// Decides whether the needs and caps have a model under the property hierarchy and
+/// disjointness of `props`. Works at most `budget` steps.
+pub fn check(needs: &[Need], caps: &[Cap], props: Props, budget: u64) -> Verdict {
     check_joint(
         needs,
         &vec![0; needs.len()],
         caps,
         &vec![0; caps.len()],
         &[],
-        applies,
+        props,
         budget,
     )
 }
@@ -114,7 +124,7 @@ pub fn check_joint(
     caps: &[Cap],
     cap_owner: &[u32],
     apart: &[Apart],
-    applies: &dyn Fn(DataPropId, DataPropId) -> bool,
+    props: Props,
     budget: u64,
 ) -> Verdict {
     if needs.iter().any(|n| n.range.is_empty()) {
@@ -133,7 +143,8 @@ pub fn check_joint(
         need_owner,
         cap_owner,
         apart: by_owners,
-        applies,
+        applies: props.sub,
+        disjoint: props.disjoint,
         budget,
     };
     let mut classes = Vec::new();
@@ -167,6 +178,21 @@ impl Search<'_> {
             .any(|&(w, q)| self.apart.get(&(o, w)).is_some_and(|ds| both(ds, q)))
     }
 
+    /// Whether a class holding `members` and the need (owner `o`, property `p`) would give
+    /// owner `o` one literal as a value of two disjoint properties (or `p` lies under both
+    /// properties of a disjoint pair, so that it can have no value at all).
+    fn breaks_disjoint(&self, members: &[(u32, DataPropId)], o: u32, p: DataPropId) -> bool {
+        let sub = self.applies;
+        self.disjoint.iter().any(|&(a, b)| {
+            let (pa, pb) = (sub(p, a), sub(p, b));
+            (pa && pb)
+                || ((pa || pb)
+                    && members
+                        .iter()
+                        .any(|&(w, q)| w == o && ((pa && sub(q, b)) || (pb && sub(q, a)))))
+        })
+    }
+
     /// Places need `i` into an existing class or a new one.
     fn place(&mut self, i: usize, classes: &mut Vec<Class>) -> Verdict {
         if !self.tick() {
@@ -183,7 +209,7 @@ impl Search<'_> {
             .zip(self.cap_owner)
             .map(|(c, &o)| o == owner && (self.applies)(need.prop, c.prop))
             .collect();
-        if self.breaks_apart(&[], owner, need.prop) {
+        if self.breaks_apart(&[], owner, need.prop) || self.breaks_disjoint(&[], owner, need.prop) {
             return Verdict::Unsat;
         }
         let mut budget_hit = false;
@@ -192,6 +218,7 @@ impl Search<'_> {
                 let c = &classes[k];
                 if need.group.is_some_and(|g| c.groups.contains(&g))
                     || self.breaks_apart(&c.members, owner, need.prop)
+                    || self.breaks_disjoint(&c.members, owner, need.prop)
                 {
                     continue;
                 }
@@ -367,6 +394,12 @@ mod tests {
         a == b
     }
 
+    /// No sub-properties, no disjointness.
+    const PLAIN: Props<'static> = Props {
+        sub: &same,
+        disjoint: &[],
+    };
+
     fn int_range(lo: &str, hi: &str) -> DataRange {
         let f = |n: &str, v: &str| {
             (
@@ -388,13 +421,13 @@ mod tests {
         // ≥3 p.integer[1..2] has no model (two integers only); ≥2 p.integer[1..2] has one.
         let r = int_range("1", "2");
         let three: Vec<Need> = (0..3).map(|_| need(0, &r, Some(0))).collect();
-        assert_eq!(check(&three, &[], &same, 10_000), Verdict::Unsat);
-        assert_eq!(check(&three[..2], &[], &same, 10_000), Verdict::Sat);
+        assert_eq!(check(&three, &[], PLAIN, 10_000), Verdict::Unsat);
+        assert_eq!(check(&three[..2], &[], PLAIN, 10_000), Verdict::Sat);
         // ≥2 p.boolean holds; ≥3 p.boolean does not.
         let b = named(&format!("{XSD}boolean")).unwrap();
         let bs: Vec<Need> = (0..3).map(|_| need(0, &b, Some(0))).collect();
-        assert_eq!(check(&bs, &[], &same, 10_000), Verdict::Unsat);
-        assert_eq!(check(&bs[..2], &[], &same, 10_000), Verdict::Sat);
+        assert_eq!(check(&bs, &[], PLAIN, 10_000), Verdict::Unsat);
+        assert_eq!(check(&bs[..2], &[], PLAIN, 10_000), Verdict::Sat);
     }
 
     #[test]
@@ -408,17 +441,17 @@ mod tests {
             max: m,
         };
         let all = DataRange::everything();
-        assert_eq!(check(&needs, &[cap(1, &all)], &same, 10_000), Verdict::Sat);
+        assert_eq!(check(&needs, &[cap(1, &all)], PLAIN, 10_000), Verdict::Sat);
         // With ∃p.integer[2..5] instead, ≤1 p cannot hold.
         let needs2 = [need(0, &one, None), need(0, &int_range("2", "5"), None)];
         assert_eq!(
-            check(&needs2, &[cap(1, &all)], &same, 10_000),
+            check(&needs2, &[cap(1, &all)], PLAIN, 10_000),
             Verdict::Unsat
         );
         // ≤0 p.integer[3..9] with ∃p.integer[2..5]: the value can be 2.
         let c = cap(0, &int_range("3", "9"));
         assert_eq!(
-            check(&needs2[1..], std::slice::from_ref(&c), &same, 10_000),
+            check(&needs2[1..], std::slice::from_ref(&c), PLAIN, 10_000),
             Verdict::Sat
         );
         // ≥2 p.integer[2..5] with ≤1 p.integer[3..9]: 2 and one of 3..5: fine; with
@@ -427,7 +460,7 @@ mod tests {
             .map(|_| need(0, &int_range("3", "5"), Some(0)))
             .collect();
         let c1 = cap(1, &int_range("3", "9"));
-        assert_eq!(check(&two, &[c1], &same, 10_000), Verdict::Unsat);
+        assert_eq!(check(&two, &[c1], PLAIN, 10_000), Verdict::Unsat);
     }
 
     #[test]
@@ -443,7 +476,7 @@ mod tests {
             prop: p(0),
         }];
         let joint = |needs: &[Need], apart: &[Apart]| {
-            check_joint(needs, &[0, 1], &[], &[], apart, &same, 10_000)
+            check_joint(needs, &[0, 1], &[], &[], apart, PLAIN, 10_000)
         };
         assert_eq!(joint(&needs, &apart), Verdict::Sat);
         let tight = [need(0, &one, None), need(0, &one, None)];
@@ -463,7 +496,7 @@ mod tests {
             need(0, &int_range("1", "2"), None),
             need(0, &int_range("2", "2"), None),
         ];
-        let v = check_joint(&three, &[0, 0, 1], &caps, &[0], &apart, &same, 10_000);
+        let v = check_joint(&three, &[0, 0, 1], &caps, &[0], &apart, PLAIN, 10_000);
         assert_eq!(v, Verdict::Sat);
         // An owner apart from itself has no p-value.
         let selfish = [Apart {
@@ -472,9 +505,86 @@ mod tests {
             prop: p(0),
         }];
         assert_eq!(
-            check_joint(&needs[..1], &[0], &[], &[], &selfish, &same, 10_000),
+            check_joint(&needs[..1], &[0], &[], &[], &selfish, PLAIN, 10_000),
             Verdict::Unsat
         );
+    }
+
+    /// p0 and p1 disjoint; p2 ⊑ p0; p3 ⊑ p0 and p3 ⊑ p1; p0, p1 ⊑ p4.
+    fn hierarchy(a: DataPropId, b: DataPropId) -> bool {
+        a == b
+            || matches!(
+                (a.0, b.0),
+                (2, 0) | (3, 0) | (3, 1) | (0, 4) | (1, 4) | (2, 4) | (3, 4)
+            )
+    }
+
+    const DISJOINT: Props<'static> = Props {
+        sub: &hierarchy,
+        disjoint: &[(DataPropId(0), DataPropId(1))],
+    };
+
+    #[test]
+    fn disjoint_properties_take_different_values() {
+        // Hand-derived from the OWL 2 Direct Semantics, Table 8 (DisjointDataProperties:
+        // (DP1)^DP ∩ (DP2)^DP = ∅). p0 = 1 and p1 = 1 at one node share the pair (x, 1): no
+        // model; p1 in [1..2] can take 2. Without the disjointness both hold.
+        let one = literal("1", Some(&format!("{XSD}integer")), None).unwrap();
+        let same_one = [need(0, &one, None), need(1, &one, None)];
+        assert_eq!(check(&same_one, &[], DISJOINT, 10_000), Verdict::Unsat);
+        assert_eq!(check(&same_one, &[], PLAIN, 10_000), Verdict::Sat);
+        let wider = [need(0, &one, None), need(1, &int_range("1", "2"), None)];
+        assert_eq!(check(&wider, &[], DISJOINT, 10_000), Verdict::Sat);
+        // Sub-properties inherit it: a p2-value is a p0-value.
+        let sub = [need(2, &one, None), need(1, &one, None)];
+        assert_eq!(check(&sub, &[], DISJOINT, 10_000), Verdict::Unsat);
+        // p3 lies under both: any p3-value would be shared, so p3 has none.
+        let all = DataRange::everything();
+        assert_eq!(
+            check(&[need(3, &all, None)], &[], DISJOINT, 10_000),
+            Verdict::Unsat
+        );
+        // Two values of p0 alone are no conflict.
+        let own = [need(0, &one, None), need(0, &one, None)];
+        assert_eq!(check(&own, &[], DISJOINT, 10_000), Verdict::Sat);
+        // A cap that forces a merge: ≤1 p4 over a p0- and a p1-value, both would be the
+        // one p4-value, which the disjointness forbids.
+        let cap = [Cap {
+            prop: p(4),
+            range: all.clone(),
+            max: 1,
+        }];
+        let two = [need(0, &all, None), need(1, &all, None)];
+        assert_eq!(check(&two, &cap, DISJOINT, 10_000), Verdict::Unsat);
+        assert_eq!(check(&two, &[], DISJOINT, 10_000), Verdict::Sat);
+    }
+
+    #[test]
+    fn disjoint_properties_count_values() {
+        // Hand-derived: ≥2 p0.D ⊓ ≥2 p1.D needs four distinct values in D, since no value can
+        // serve both; D = integer[1..3] has three, integer[1..4] four.
+        for (hi, want) in [("3", Verdict::Unsat), ("4", Verdict::Sat)] {
+            let d = int_range("1", hi);
+            let needs = [
+                need(0, &d, Some(0)),
+                need(0, &d, Some(0)),
+                need(1, &d, Some(1)),
+                need(1, &d, Some(1)),
+            ];
+            assert_eq!(check(&needs, &[], DISJOINT, 10_000), want, "D = [1..{hi}]");
+        }
+    }
+
+    #[test]
+    fn disjointness_binds_one_owner_only() {
+        // Hand-derived: owner 0's p0-value and owner 1's p1-value may be one literal; the
+        // disjointness speaks of one individual's values.
+        let one = literal("1", Some(&format!("{XSD}integer")), None).unwrap();
+        let needs = [need(0, &one, None), need(1, &one, None)];
+        let v = check_joint(&needs, &[0, 1], &[], &[], &[], DISJOINT, 10_000);
+        assert_eq!(v, Verdict::Sat);
+        let v = check_joint(&needs, &[0, 0], &[], &[], &[], DISJOINT, 10_000);
+        assert_eq!(v, Verdict::Unsat);
     }
 
     #[test]
@@ -484,7 +594,7 @@ mod tests {
             .unwrap()
             .union(&literal("b", None, None).unwrap());
         let needs: Vec<Need> = (0..3).map(|_| need(0, &ab, Some(0))).collect();
-        assert_eq!(check(&needs, &[], &same, 10_000), Verdict::Unsat);
-        assert_eq!(check(&needs[..2], &[], &same, 10_000), Verdict::Sat);
+        assert_eq!(check(&needs, &[], PLAIN, 10_000), Verdict::Unsat);
+        assert_eq!(check(&needs[..2], &[], PLAIN, 10_000), Verdict::Sat);
     }
 }

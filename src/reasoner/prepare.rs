@@ -38,6 +38,11 @@ pub struct Prepared {
     pub data_supers: Vec<Vec<DataPropId>>,
     /// Functional data properties.
     pub data_functional: Vec<bool>,
+    /// Pairs of data properties declared disjoint (each pair once, as written).
+    pub data_disjoint: Vec<(DataPropId, DataPropId)>,
+    /// For each data property p: whether some q with p ⊑* q is in a disjoint pair, so that a
+    /// node with a value of p needs the full search for its values.
+    pub data_in_disjoint: Vec<bool>,
     /// Data ranges per property (from range axioms).
     pub data_ranges: Vec<Vec<DataRangeId>>,
     /// Concepts added when a node has a value for the data property (domains).
@@ -180,6 +185,13 @@ pub fn prepare(
             }
             Axiom::SubDataProp(a, b) => data_sub[a.index() * n_dp + b.index()] = true,
             Axiom::FunctionalData(d) => p.data_functional[d.index()] = true,
+            Axiom::DisjointDataProps(ds) => {
+                for i in 0..ds.len() {
+                    for j in i + 1..ds.len() {
+                        p.data_disjoint.push((ds[i], ds[j]));
+                    }
+                }
+            }
             _ => {}
         }
     }
@@ -238,6 +250,17 @@ pub fn prepare(
                 .filter(|&b| data_sub[a * n_dp + b])
                 .map(|b| DataPropId(b as u32))
                 .collect()
+        })
+        .collect();
+    p.data_disjoint.sort_unstable();
+    p.data_disjoint.dedup();
+    p.data_in_disjoint = p
+        .data_supers
+        .iter()
+        .map(|qs| {
+            p.data_disjoint
+                .iter()
+                .any(|&(a, b)| qs.contains(&a) || qs.contains(&b))
         })
         .collect();
     p.simple = (0..n_roles)

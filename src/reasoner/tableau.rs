@@ -852,7 +852,14 @@ impl<'a> Tableau<'a> {
                 _ => {}
             }
         }
-        if counted {
+        // Values of properties under a disjoint pair may not coincide: only the full search
+        // sees which values are one literal (only KBs with the axiom get here).
+        if counted
+            || (!p.data_disjoint.is_empty()
+                && somes
+                    .iter()
+                    .any(|&(dp, _, _)| p.data_in_disjoint[dp.index()]))
+        {
             self.check_data_counts(x, &alls);
             return;
         }
@@ -975,7 +982,11 @@ impl<'a> Tableau<'a> {
         let p = self.prep;
         let (needs, caps, dep) = self.data_problem(x, alls, 0);
         let applies = |a: DataPropId, b: DataPropId| p.data_supers[a.index()].contains(&b);
-        match datavalues::check(&needs, &caps, &applies, DATA_BUDGET) {
+        let props = datavalues::Props {
+            sub: &applies,
+            disjoint: &p.data_disjoint,
+        };
+        match datavalues::check(&needs, &caps, props, DATA_BUDGET) {
             datavalues::Verdict::Sat => {}
             datavalues::Verdict::Unsat => self.set_clash(dep),
             datavalues::Verdict::Budget => self.stopped = Some(Limit::DataValues),
@@ -2028,3 +2039,7 @@ fn mix(x: u64) -> u64 {
 #[cfg(test)]
 #[path = "nn_rule_tests.rs"]
 mod nn_rule_tests;
+
+#[cfg(test)]
+#[path = "disjoint_data_tests.rs"]
+mod disjoint_data_tests;

@@ -270,8 +270,11 @@ impl Signature {
             }
             // A key on an empty class constrains nothing.
             Axiom::HasKey(c, _, _) => bot(*c),
+            // Never local: under ⊤-locality a data property outside the signature becomes the
+            // universal one, which is disjoint from no property that has a value.
             Axiom::SubDataProp(..)
             | Axiom::FunctionalData(_)
+            | Axiom::DisjointDataProps(_)
             | Axiom::DataRangeAxiom(..)
             | Axiom::Same(_)
             | Axiom::Different(_) => false,

@@ -208,6 +208,24 @@ impl Converter<'_> {
                 }
                 Outcome::Axioms(axs)
             }
+            C::DisjointDataProperties(ax) => {
+                let specials: Vec<Option<bool>> =
+                    ax.0.iter().map(|d| special_data_property(&d.0)).collect();
+                if specials.iter().all(|s| s.is_none()) {
+                    return None;
+                }
+                if specials.contains(&Some(true)) {
+                    return Some(Err(TOP_DATA.into()));
+                }
+                // The bottom data property is disjoint from every one: the rest stay so.
+                let mut kept = ax.clone();
+                kept.0.retain(|d| special_data_property(&d.0).is_none());
+                if kept.0.len() < 2 {
+                    True
+                } else {
+                    Outcome::Instead(C::DisjointDataProperties(kept))
+                }
+            }
             C::DataPropertyDomain(ax) => self.bottom_data_only(&ax.dp)?,
             C::DataPropertyRange(ax) => self.bottom_data_only(&ax.dp)?,
             C::FunctionalDataProperty(ax) => self.bottom_data_only(&ax.0)?,

@@ -89,7 +89,7 @@ fn entity(
 }
 
 /// OWL 2 functional-syntax keywords that start an axiom or a class expression.
-const FUNCTIONAL: [&str; 48] = [
+const FUNCTIONAL: [&str; 49] = [
     "Prefix",
     "Declaration",
     "SubClassOf",
@@ -118,6 +118,7 @@ const FUNCTIONAL: [&str; 48] = [
     "TransitiveObjectProperty",
     "SubDataPropertyOf",
     "EquivalentDataProperties",
+    "DisjointDataProperties",
     "DataPropertyDomain",
     "DataPropertyRange",
     "FunctionalDataProperty",

@@ -283,13 +283,17 @@ impl Tableau<'_> {
         }
         let p = self.prep;
         let applies = |a: DataPropId, b: DataPropId| p.data_supers[a.index()].contains(&b);
+        let props = datavalues::Props {
+            sub: &applies,
+            disjoint: &p.data_disjoint,
+        };
         match datavalues::check_joint(
             &needs,
             &need_owner,
             &caps,
             &cap_owner,
             &pairs,
-            &applies,
+            props,
             DATA_BUDGET,
         ) {
             datavalues::Verdict::Sat => {

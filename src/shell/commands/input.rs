@@ -22,14 +22,13 @@ pub(super) fn read_input(
 
 /// Constructs outside what the reasoner supports, by the functional-syntax keyword that
 /// writes them (to point at them in the input).
-const UNSUPPORTED_WORDS: [&str; 13] = [
+const UNSUPPORTED_WORDS: [&str; 12] = [
     "ObjectHasSelf",
     "ObjectPropertyChain",
     "ReflexiveObjectProperty",
     "IrreflexiveObjectProperty",
     "AsymmetricObjectProperty",
     "DisjointObjectProperties",
-    "DisjointDataProperties",
     "HasKey",
     "DataMinCardinality",
     "DataMaxCardinality",

@@ -9,6 +9,7 @@
 //! range), so asserting it makes the ontology inconsistent, as OWL 2 specifies.
 
 pub mod automaton;
+pub mod blocks;
 pub mod datetime;
 pub mod float;
 pub mod lexical;

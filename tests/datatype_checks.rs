@@ -47,4 +47,10 @@ datatypes! {
     block_escapes_in_patterns: "block-pattern";
     // A range with a block escape, and a name outside it.
     block_escape_range_clash: "block-pattern-range";
+    // rdf:XMLLiteral: equal values written differently, different values, an ill-typed
+    // lexical form, and the same characters as an xsd:string.
+    xml_literals_written_differently_are_equal: "xml-literal-equal";
+    xml_literals_that_differ_clash_when_functional: "xml-literal-different";
+    xml_literal_ill_typed_is_inconsistent: "xml-literal-ill-typed";
+    xml_literal_is_not_a_string: "xml-literal-string";
 }

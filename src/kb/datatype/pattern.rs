@@ -379,8 +379,8 @@ fn block(name: &str) -> Result<Class, String> {
         .unwrap_or_default();
     Err(format!(
         "pattern: unknown Unicode block \\p{{Is{name}}}{hint}; block names are those of \
-         Unicode {UCD_VERSION}'s Blocks.txt without white space, letter case and hyphens as \
-         written there"
+         Unicode {UCD_VERSION}'s Blocks.txt with white space removed, letter case and hyphens \
+         kept"
     ))
 }
 

@@ -92,6 +92,7 @@ pub fn describe(r: &DataRange) -> String {
         (&r.uri, &u.uri, "anyURI"),
         (&r.hex, &u.hex, "hexBinary"),
         (&r.base64, &u.base64, "base64Binary"),
+        (&r.xml, &u.xml, "XMLLiteral"),
     ] {
         if d.is_empty() {
             continue;

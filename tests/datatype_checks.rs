@@ -53,4 +53,8 @@ datatypes! {
     xml_literals_that_differ_clash_when_functional: "xml-literal-different";
     xml_literal_ill_typed_is_inconsistent: "xml-literal-ill-typed";
     xml_literal_is_not_a_string: "xml-literal-string";
+    // Where HermiT follows the RDF 2004 definition (exclusive canonical XML) and RDF 1.1's
+    // DOM comparison decides otherwise.
+    xml_literal_attribute_prefixes_do_not_count: "xml-literal-attribute-prefix";
+    xml_literal_namespace_declarations_count: "xml-literal-namespace-declaration";
 }

@@ -5,7 +5,8 @@
 //! xsd:double, xsd:float, xsd:boolean, the plain literals (xsd:string and its subtypes,
 //! language-tagged strings), xsd:anyURI, xsd:hexBinary, xsd:base64Binary, xsd:dateTime and
 //! rdf:XMLLiteral (§4.6). A range holds one exact set per space (interval unions for ordered spaces, automata for
-//! string-like spaces, see [`crate::kb::datatype`]) plus a flag for literals of datatypes
+//! string-like spaces, finite or co-finite sets of rdf:XMLLiteral values, see
+//! [`crate::kb::datatype`]) plus a flag for literals of datatypes
 //! outside the map, which only rdfs:Literal and complements reach. Every space is closed
 //! under intersection, union and complement with decidable emptiness and counting.
 
@@ -13,6 +14,7 @@ use super::datatype::automaton::Dfa;
 use super::datatype::datetime::TimeSet;
 use super::datatype::float::{FloatSet, Width};
 use super::datatype::real::{REAL, RPiece, RealSet};
+use super::datatype::xml::XmlSet;
 use super::datatype::{text, universe};
 use std::collections::HashMap;
 
@@ -31,8 +33,6 @@ pub enum TextSpace {
     Hex,
     /// xsd:base64Binary octets.
     Base64,
-    /// rdf:XMLLiteral values, each held as its canonical text ([`crate::kb::datatype::xml`]).
-    Xml,
 }
 
 /// A data range: one set per value space.
@@ -56,8 +56,8 @@ pub struct DataRange {
     pub base64: Dfa,
     /// xsd:dateTime.
     pub time: TimeSet,
-    /// rdf:XMLLiteral: the canonical texts of its values.
-    pub xml: Dfa,
+    /// rdf:XMLLiteral: finitely many values or all but finitely many.
+    pub xml: XmlSet,
     /// Literals of datatypes outside the OWL 2 datatype map.
     pub other: bool,
 }
@@ -74,7 +74,7 @@ impl Default for DataRange {
             hex: Dfa::nothing(),
             base64: Dfa::nothing(),
             time: TimeSet::default(),
-            xml: Dfa::nothing(),
+            xml: XmlSet::default(),
             other: false,
         }
     }
@@ -144,7 +144,6 @@ impl DataRange {
             TextSpace::Uri => &mut self.uri,
             TextSpace::Hex => &mut self.hex,
             TextSpace::Base64 => &mut self.base64,
-            TextSpace::Xml => &mut self.xml,
         }
     }
 
@@ -160,7 +159,7 @@ impl DataRange {
             && self.uri.is_empty()
             && self.hex.is_empty()
             && self.base64.is_empty()
-            && (self.xml.is_nothing() || self.xml.is_empty())
+            && self.xml.is_empty()
     }
 
     /// How many literals the range holds: `None` when infinite or more than `cap`.
@@ -178,11 +177,7 @@ impl DataRange {
             self.uri.count(cap)?,
             self.hex.count(cap)?,
             self.base64.count(cap)?,
-            if self.xml.is_nothing() {
-                0
-            } else {
-                self.xml.count(cap)?
-            },
+            self.xml.count()?,
         ] {
             n = n.checked_add(c)?;
         }
@@ -202,7 +197,7 @@ impl DataRange {
             hex: dfa_and(&self.hex, &o.hex, &u.hex),
             base64: dfa_and(&self.base64, &o.base64, &u.base64),
             time: self.time.intersect(&o.time),
-            xml: dfa_and(&self.xml, &o.xml, &u.xml),
+            xml: self.xml.intersect(&o.xml),
             other: self.other && o.other,
         }
     }
@@ -219,7 +214,7 @@ impl DataRange {
             hex: dfa_or(&self.hex, &o.hex),
             base64: dfa_or(&self.base64, &o.base64),
             time: self.time.union(&o.time),
-            xml: dfa_or(&self.xml, &o.xml),
+            xml: self.xml.union(&o.xml),
             other: self.other || o.other,
         }
     }
@@ -237,7 +232,7 @@ impl DataRange {
             hex: dfa_not(&self.hex, &u.hex),
             base64: dfa_not(&self.base64, &u.base64),
             time: self.time.complement(),
-            xml: dfa_not(&self.xml, &u.xml),
+            xml: self.xml.complement(),
             other: !self.other,
         }
     }

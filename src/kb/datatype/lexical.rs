@@ -69,7 +69,10 @@ impl Value {
                 time: TimeSet::point(st),
                 ..DataRange::empty()
             },
-            Value::Xml(s) => DataRange::text(TextSpace::Xml, Dfa::word(&word(s))),
+            Value::Xml(s) => DataRange {
+                xml: xml::XmlSet::single(s),
+                ..DataRange::empty()
+            },
         }
     }
 }

@@ -62,11 +62,6 @@ pub struct Universe {
     pub hex: Dfa,
     /// Every octet sequence (base64Binary).
     pub base64: Dfa,
-    /// Every rdf:XMLLiteral value. The values are held as their canonical texts, and the
-    /// universe is every string: no facet applies to rdf:XMLLiteral (OWL 2 §4.6), so the only
-    /// sets built in this space are finite or co-finite, and for those emptiness and counting
-    /// come out the same over all strings as over the canonical texts alone (both infinite).
-    pub xml: Dfa,
 }
 
 /// The universes, built once.
@@ -81,7 +76,6 @@ pub fn universe() -> &'static Universe {
         Universe {
             plain: strings.then_tagged(TAG_SEP, &tags, true),
             uri: strings.clone(),
-            xml: strings.clone(),
             strings,
             tags,
             hex: octets.clone(),
@@ -242,7 +236,10 @@ pub fn lookup(iri: &str) -> Result<(Family, DataRange), String> {
             "XMLLiteral" => {
                 return Ok((
                     Family::Xml,
-                    DataRange::text(TextSpace::Xml, universe().xml.clone()),
+                    DataRange {
+                        xml: xml::XmlSet::full(),
+                        ..DataRange::empty()
+                    },
                 ));
             }
             _ => {

@@ -92,7 +92,6 @@ pub fn describe(r: &DataRange) -> String {
         (&r.uri, &u.uri, "anyURI"),
         (&r.hex, &u.hex, "hexBinary"),
         (&r.base64, &u.base64, "base64Binary"),
-        (&r.xml, &u.xml, "XMLLiteral"),
     ] {
         if d.is_empty() {
             continue;
@@ -116,6 +115,16 @@ pub fn describe(r: &DataRange) -> String {
             parts.push(format!("string[{} states]", d.trans.len()));
         } else {
             parts.push(format!("{name}[{} states]", d.trans.len()));
+        }
+    }
+    if r.xml.co && r.xml.values.is_empty() {
+        parts.push("XMLLiteral".into());
+    } else if r.xml.co {
+        parts.push("XMLLiteral except {…}".into());
+    }
+    if !r.xml.co {
+        for v in &r.xml.values {
+            parts.push(format!("{{\"{v}\" (XMLLiteral)}}"));
         }
     }
     for (set, name) in [

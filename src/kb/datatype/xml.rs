@@ -33,11 +33,75 @@ use super::pattern::{name_char, name_start};
 use quick_xml::Reader;
 use quick_xml::escape::unescape;
 use quick_xml::events::Event;
-use std::collections::BTreeMap;
+use std::collections::{BTreeMap, BTreeSet};
 use std::sync::OnceLock;
 
 const XML_NS: &str = "http://www.w3.org/XML/1998/namespace";
 const XMLNS_NS: &str = "http://www.w3.org/2000/xmlns/";
+
+/// A set of rdf:XMLLiteral values, each held as its canonical text: finitely many values,
+/// or all values but finitely many. No facet applies to rdf:XMLLiteral (OWL 2 Structural
+/// Specification §4.6), so literals, the datatype itself and the boolean operations only
+/// ever build such sets, and this form keeps every operation exact and cheap.
+#[derive(Clone, Debug, Default, PartialEq, Eq, Hash)]
+pub struct XmlSet {
+    /// `true`: every value except `values`; `false`: exactly `values`.
+    pub co: bool,
+    /// Canonical texts.
+    pub values: BTreeSet<String>,
+}
+
+impl XmlSet {
+    /// Every rdf:XMLLiteral value.
+    pub fn full() -> XmlSet {
+        XmlSet {
+            co: true,
+            values: BTreeSet::new(),
+        }
+    }
+
+    /// One value, given by its canonical text.
+    pub fn single(text: &str) -> XmlSet {
+        XmlSet {
+            co: false,
+            values: BTreeSet::from([text.to_string()]),
+        }
+    }
+
+    /// Whether the set holds no value (the value space is infinite, so a co-set never is).
+    pub fn is_empty(&self) -> bool {
+        !self.co && self.values.is_empty()
+    }
+
+    /// How many values: `None` when infinite.
+    pub fn count(&self) -> Option<u64> {
+        (!self.co).then_some(self.values.len() as u64)
+    }
+
+    /// Intersection.
+    pub fn intersect(&self, o: &XmlSet) -> XmlSet {
+        let (co, values) = match (self.co, o.co) {
+            (false, false) => (false, &self.values & &o.values),
+            (false, true) => (false, &self.values - &o.values),
+            (true, false) => (false, &o.values - &self.values),
+            (true, true) => (true, &self.values | &o.values),
+        };
+        XmlSet { co, values }
+    }
+
+    /// Union.
+    pub fn union(&self, o: &XmlSet) -> XmlSet {
+        self.complement().intersect(&o.complement()).complement()
+    }
+
+    /// Complement within the rdf:XMLLiteral values.
+    pub fn complement(&self) -> XmlSet {
+        XmlSet {
+            co: !self.co,
+            values: self.values.clone(),
+        }
+    }
+}
 
 /// The canonical text of the value of an rdf:XMLLiteral lexical form, or `None` when the
 /// form is not well-balanced, namespace-well-formed XML content (the literal is ill-typed).
@@ -342,6 +406,20 @@ mod tests {
         assert_ne!(c("<p:a xmlns:p='u'/>"), c("<q:a xmlns:q='u'/>"));
         assert_ne!(c("<a><!--x--></a>"), c("<a></a>"));
         assert_ne!(c("<a/><b/>"), c("<b/><a/>"));
+    }
+
+    #[test]
+    fn finite_and_cofinite_sets() {
+        // Hand-derived set algebra: A = {a, b}, B = all but {b, c}.
+        let a = XmlSet::single("a").union(&XmlSet::single("b"));
+        let b = XmlSet::single("b").union(&XmlSet::single("c")).complement();
+        assert_eq!(a.intersect(&b), XmlSet::single("a"));
+        assert_eq!(a.union(&b), XmlSet::single("c").complement());
+        assert_eq!(a.count(), Some(2));
+        assert_eq!(b.count(), None);
+        assert!(a.intersect(&a.complement()).is_empty());
+        assert_eq!(a.union(&a.complement()), XmlSet::full());
+        assert!(!b.intersect(&XmlSet::single("d").complement()).is_empty());
     }
 
     #[test]

@@ -132,6 +132,9 @@ pub fn canonical(lex: &str) -> Option<String> {
         match event {
             Event::Start(e) | Event::Empty(e) => {
                 let name = std::str::from_utf8(e.name().0).ok()?.to_string();
+                if !attributes_separated(std::str::from_utf8(e.attributes_raw()).ok()?) {
+                    return None;
+                }
                 let attrs: Vec<(String, String)> = e
                     .attributes()
                     .map(|a| {
@@ -277,6 +280,28 @@ fn start_tag(name: &str, attrs: &[(String, String)], parent: &Scope) -> Option<(
     }
     tag.push('>');
     Some((scope, tag))
+}
+
+/// Whether every attribute value is followed by white space or the end of the tag, as XML
+/// 1.0 production [40] requires (`<a b='1'c='2'>` is not well-formed; quick-xml accepts it).
+/// A quote can only open or close a value in a well-formed tag, so quotes pair up.
+fn attributes_separated(raw: &str) -> bool {
+    let b = raw.as_bytes();
+    let mut i = 0;
+    while i < b.len() {
+        if b[i] == b'\'' || b[i] == b'"' {
+            let Some(len) = raw[i + 1..].find(b[i] as char) else {
+                return false;
+            };
+            i += len + 2;
+            if i < b.len() && !matches!(b[i], b' ' | b'\t' | b'\n' | b'\r' | b'/') {
+                return false;
+            }
+        } else {
+            i += 1;
+        }
+    }
+    true
 }
 
 /// A qualified name (Namespaces in XML 1.0 production [7]): optional prefix and local part.
@@ -442,6 +467,8 @@ mod tests {
             "<a x='<'/>",                // '<' in an attribute value
             "]]>",                       // "]]>" in character data
             "<1a/>",                     // not a name
+            "<a b='1'c='2'/>",           // no white space between attributes
+            "<a b=1/>",                  // unquoted attribute value
             "\u{1}",                     // not an XML character
         ] {
             assert_eq!(c(bad), None, "{bad:?}");

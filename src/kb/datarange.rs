@@ -3,9 +3,10 @@
 //! OWL 2 (Structural Specification §4) gives each family of datatypes its own value space,
 //! pairwise disjoint: the reals (owl:real ⊇ owl:rational ⊇ xsd:decimal ⊇ xsd:integer),
 //! xsd:double, xsd:float, xsd:boolean, the plain literals (xsd:string and its subtypes,
-//! language-tagged strings), xsd:anyURI, xsd:hexBinary, xsd:base64Binary and xsd:dateTime.
-//! A range holds one exact set per space (interval unions for ordered spaces, automata for
-//! string-like spaces, see [`crate::kb::datatype`]) plus a flag for literals of datatypes
+//! language-tagged strings), xsd:anyURI, xsd:hexBinary, xsd:base64Binary, xsd:dateTime and
+//! rdf:XMLLiteral (§4.6). A range holds one exact set per space (interval unions for ordered spaces, automata for
+//! string-like spaces, finite or co-finite sets of rdf:XMLLiteral values, see
+//! [`crate::kb::datatype`]) plus a flag for literals of datatypes
 //! outside the map, which only rdfs:Literal and complements reach. Every space is closed
 //! under intersection, union and complement with decidable emptiness and counting.
 
@@ -13,6 +14,7 @@ use super::datatype::automaton::Dfa;
 use super::datatype::datetime::TimeSet;
 use super::datatype::float::{FloatSet, Width};
 use super::datatype::real::{REAL, RPiece, RealSet};
+use super::datatype::xml::XmlSet;
 use super::datatype::{text, universe};
 use std::collections::HashMap;
 
@@ -54,6 +56,8 @@ pub struct DataRange {
     pub base64: Dfa,
     /// xsd:dateTime.
     pub time: TimeSet,
+    /// rdf:XMLLiteral: finitely many values or all but finitely many.
+    pub xml: XmlSet,
     /// Literals of datatypes outside the OWL 2 datatype map.
     pub other: bool,
 }
@@ -70,6 +74,7 @@ impl Default for DataRange {
             hex: Dfa::nothing(),
             base64: Dfa::nothing(),
             time: TimeSet::default(),
+            xml: XmlSet::default(),
             other: false,
         }
     }
@@ -154,6 +159,7 @@ impl DataRange {
             && self.uri.is_empty()
             && self.hex.is_empty()
             && self.base64.is_empty()
+            && self.xml.is_empty()
     }
 
     /// How many literals the range holds: `None` when infinite or more than `cap`.
@@ -171,6 +177,7 @@ impl DataRange {
             self.uri.count(cap)?,
             self.hex.count(cap)?,
             self.base64.count(cap)?,
+            self.xml.count()?,
         ] {
             n = n.checked_add(c)?;
         }
@@ -190,6 +197,7 @@ impl DataRange {
             hex: dfa_and(&self.hex, &o.hex, &u.hex),
             base64: dfa_and(&self.base64, &o.base64, &u.base64),
             time: self.time.intersect(&o.time),
+            xml: self.xml.intersect(&o.xml),
             other: self.other && o.other,
         }
     }
@@ -206,6 +214,7 @@ impl DataRange {
             hex: dfa_or(&self.hex, &o.hex),
             base64: dfa_or(&self.base64, &o.base64),
             time: self.time.union(&o.time),
+            xml: self.xml.union(&o.xml),
             other: self.other || o.other,
         }
     }
@@ -223,6 +232,7 @@ impl DataRange {
             hex: dfa_not(&self.hex, &u.hex),
             base64: dfa_not(&self.base64, &u.base64),
             time: self.time.complement(),
+            xml: self.xml.complement(),
             other: !self.other,
         }
     }
@@ -315,6 +325,39 @@ mod tests {
                 .intersect(&lit("1.0E0", "double"))
                 .is_empty()
         );
+    }
+
+    #[test]
+    fn xml_literals_are_their_own_space() {
+        // OWL 2 Structural Specification §4.6: rdf:XMLLiteral is disjoint from the others.
+        let rdf = "http://www.w3.org/1999/02/22-rdf-syntax-ns#";
+        let xml = named(&format!("{rdf}XMLLiteral")).unwrap();
+        let xlit = |s: &str| literal(s, Some(&format!("{rdf}XMLLiteral")), None).unwrap();
+        for d in ["string", "anyURI", "hexBinary", "decimal", "dateTime"] {
+            assert!(xml.intersect(&dt(d)).is_empty(), "XMLLiteral ∩ {d}");
+        }
+        assert!(xml.intersect(&lit("<a></a>", "string")).is_empty());
+        assert!(!xml.is_empty() && xml.count(1000).is_none());
+        // Two lexical forms of one value are one range, and intern to one id.
+        let (a, b) = (xlit("<a/>"), xlit("<a></a>"));
+        assert_eq!(a, b);
+        let mut store = DataRangeStore::default();
+        assert_eq!(store.intern(a.clone()), store.intern(b));
+        // Union, complement, counting over the space.
+        let two = a.union(&xlit("<b/>"));
+        assert_eq!(two.count(10), Some(2));
+        assert!(two.intersect(&two.complement()).is_empty());
+        assert_eq!(two.complement().complement(), two);
+        assert!(xml.intersect(&a.complement()).count(10).is_none());
+        assert_eq!(
+            two.union(&two.complement()),
+            DataRange::everything(),
+            "complement is taken inside each space"
+        );
+        // Ill-typed: no value.
+        assert!(xlit("<a>").is_empty());
+        assert_eq!(a.describe(), "{\"<a></a>\" (XMLLiteral)}");
+        assert_eq!(xml.describe(), "XMLLiteral");
     }
 
     #[test]

@@ -4,7 +4,7 @@ use super::automaton::Dfa;
 use super::datetime::{self, Stamp, TimeSet};
 use super::float::{self, FloatSet, Width};
 use super::real::{self, RPiece};
-use super::{Family, RDF, TAG_SEP, lookup, universe};
+use super::{Family, RDF, TAG_SEP, lookup, universe, xml};
 use crate::kb::datarange::{DataRange, TextSpace};
 use num_rational::BigRational;
 
@@ -25,6 +25,8 @@ pub enum Value {
     Binary(TextSpace, Vec<u8>),
     /// A dateTime.
     Time(Stamp),
+    /// An rdf:XMLLiteral value, as its canonical text.
+    Xml(String),
 }
 
 impl Value {
@@ -65,6 +67,10 @@ impl Value {
             }
             Value::Time(st) => DataRange {
                 time: TimeSet::point(st),
+                ..DataRange::empty()
+            },
+            Value::Xml(s) => DataRange {
+                xml: xml::XmlSet::single(s),
                 ..DataRange::empty()
             },
         }
@@ -150,6 +156,8 @@ pub fn parse_literal(
             bytes.map(|b| Value::Binary(space, b))
         }
         Family::Time(_) => datetime::parse(trimmed).map(Value::Time),
+        // No white space is trimmed: it is part of the fragment's text.
+        Family::Xml => xml::canonical(lex).map(Value::Xml),
         Family::Literal => {
             return Err("a literal typed rdfs:Literal has no defined value".into());
         }

@@ -4,9 +4,11 @@
 //! ordinary characters, `.` excludes only line feed and carriage return, classes allow
 //! subtraction (`[a-z-[aeiou]]`) and `\i`, `\c` name the XML name characters. The parser
 //! follows the grammar of Appendix G; Unicode general categories come from the tables of
-//! the `regex-syntax` crate. Unicode block escapes (`\p{IsBasicLatin}`) are refused.
+//! the `regex-syntax` crate; Unicode blocks (`\p{IsBasicLatin}`) from the UCD table in
+//! [`super::blocks`].
 
 use super::automaton::{Class, Dfa, MAX_CHAR, Nfa, class_and, class_norm, class_not};
+use super::blocks::{BLOCKS, UCD_VERSION};
 
 /// Compiles an XSD pattern to a minimal DFA over code points.
 pub fn compile(pattern: &str) -> Result<Dfa, String> {
@@ -314,18 +316,72 @@ impl Parser<'_> {
                 };
                 let name: String = self.s[start..start + len].iter().collect();
                 self.i = start + len + 1;
-                let set = if name.starts_with("Is") {
-                    return Err(format!(
-                        "pattern: Unicode block escape \\p{{{name}}} is not supported"
-                    ));
-                } else {
-                    category(&name)?
+                let set = match name.strip_prefix("Is") {
+                    Some(block_name) => block(block_name)?,
+                    None => category(&name)?,
                 };
                 if c == 'p' { set } else { class_not(&set) }
             }
             _ => return Err(self.err(&format!("unknown escape \\{c}"))),
         })
     }
+}
+
+/// Block names of XSD 1.0 (Unicode 3.1) that later Unicode versions renamed, with the ranges
+/// XSD 1.0's table gave them. XSD 1.1 Part 2 §G.4.2.3 lists these and encourages processors
+/// to keep accepting them for compatibility; the current names (`IsGreekandCoptic`, ...)
+/// are the ones it requires. `PrivateUse` covered three ranges in that table.
+const XSD10_BLOCKS: &[(&str, &[(u32, u32)])] = &[
+    ("Greek", &[(0x0370, 0x03FF)]),
+    ("CombiningMarksforSymbols", &[(0x20D0, 0x20FF)]),
+    (
+        "PrivateUse",
+        &[(0xE000, 0xF8FF), (0xF0000, 0xFFFFD), (0x100000, 0x10FFFD)],
+    ),
+];
+
+/// The block escape `\p{IsX}` (XSD 1.1 Part 2 §G.4.2.3): the code points of the block whose
+/// *normalized block name* is X, that is the UCD name with white space and underbars
+/// stripped, hyphens and letter case kept (`Latin-1 Supplement` gives `IsLatin-1Supplement`).
+/// The match is exact: Unicode's own loose matching (UAX #44 LM3, which ignores case and
+/// hyphens) is not what XSD defines, so a near miss is named in the error instead. §G.4.2.4
+/// lets an unrecognized name match every character or, at user option, be an error; a
+/// silent wildcard would change answers, so it is an error here.
+fn block(name: &str) -> Result<Class, String> {
+    // IsBlock ::= 'Is' [a-zA-Z0-9#x2D]+ (production [36] of XSD 1.0, [96] of XSD 1.1).
+    if name.is_empty() || !name.bytes().all(|b| b.is_ascii_alphanumeric() || b == b'-') {
+        return Err(format!(
+            "pattern: \\p{{Is{name}}} is not a block escape (a block name is letters, digits and '-')"
+        ));
+    }
+    let normalized = |ucd: &str| -> String {
+        ucd.chars()
+            .filter(|c| !c.is_whitespace() && *c != '_')
+            .collect()
+    };
+    if let Some(&(lo, hi, _)) = BLOCKS.iter().find(|(_, _, n)| normalized(n) == name) {
+        return Ok(vec![(lo, hi)]);
+    }
+    if let Some((_, ranges)) = XSD10_BLOCKS.iter().find(|(n, _)| *n == name) {
+        return Ok(class_norm(ranges.to_vec()));
+    }
+    // UAX #44 LM3 loose matching, only to suggest the spelling XSD wants.
+    let loose = |s: &str| -> String {
+        s.chars()
+            .filter(|c| c.is_ascii_alphanumeric())
+            .map(|c| c.to_ascii_lowercase())
+            .collect()
+    };
+    let hint = BLOCKS
+        .iter()
+        .find(|(_, _, n)| loose(n) == loose(name))
+        .map(|(_, _, n)| format!(" (did you mean \\p{{Is{}}}?)", normalized(n)))
+        .unwrap_or_default();
+    Err(format!(
+        "pattern: unknown Unicode block \\p{{Is{name}}}{hint}; block names are those of \
+         Unicode {UCD_VERSION}'s Blocks.txt with white space removed, letter case and hyphens \
+         kept"
+    ))
 }
 
 /// `\w`: every character except punctuation, separators and "other" (XSD 1.1 G.4.2.5).
@@ -391,7 +447,6 @@ mod tests {
         let dot = compile(".").unwrap();
         assert!(dot.contains(&w("\t")) && !dot.contains(&w("\n")));
         assert!(compile("\\d+").unwrap().contains(&w("٣4")));
-        assert!(compile("\\p{IsBasicLatin}").is_err());
         assert!(compile("a{2,1}").is_err());
         assert!(compile("(a").is_err());
     }
@@ -411,5 +466,50 @@ mod tests {
                 .and(&compile("b+").unwrap())
                 .is_empty()
         );
+    }
+
+    #[test]
+    fn block_escapes() {
+        // Blocks-15.0.0.txt: Latin-1 Supplement is 0080..00FF, Basic Latin 0000..007F.
+        let latin1 = compile("\\p{IsLatin-1Supplement}").unwrap();
+        assert!(latin1.contains(&w("é")) && !latin1.contains(&w("A")));
+        assert_eq!(latin1.count(1000), Some(128));
+        // Negated block: every character but U+0000..U+007F.
+        let not_ascii = compile("\\P{IsBasicLatin}").unwrap();
+        assert!(not_ascii.contains(&w("é")) && !not_ascii.contains(&w("A")));
+        // Inside a class, with subtraction: Basic Latin minus the lower-case letters; the
+        // XML characters of Basic Latin are U+0009, U+000A, U+000D and U+0020..U+007F
+        // (99), less 26 letters = 73 (hand count).
+        let c = compile("[\\p{IsBasicLatin}-[a-z]]")
+            .unwrap()
+            .and(&super::super::universe().strings);
+        assert!(c.contains(&w("A")) && !c.contains(&w("a")));
+        assert_eq!(c.count(1000), Some(73));
+        // A negated block inside a negated class is the block again: [^\P{IsThai}].
+        let thai = compile("[^\\P{IsThai}]").unwrap();
+        assert!(thai.contains(&w("ก")) && !thai.contains(&w("a")));
+        assert_eq!(thai.count(1000), Some(128));
+        // Greek and Coptic is 0370..03FF; XSD 1.0's name IsGreek is kept for compatibility
+        // (XSD 1.1 §G.4.2.3) and denotes the same range; Greek Extended is another block.
+        let greek = compile("\\p{IsGreekandCoptic}+").unwrap();
+        assert!(greek.contains(&w("αβγ")) && !greek.contains(&w("ἀ")));
+        assert_eq!(greek, compile("\\p{IsGreek}+").unwrap());
+        // Supplementary planes: U+1F600 is in Emoticons (1F600..1F64F).
+        assert!(compile("\\p{IsEmoticons}").unwrap().contains(&w("😀")));
+    }
+
+    #[test]
+    fn unknown_blocks_are_errors() {
+        // Names match exactly (hyphens and case as the UCD writes them, XSD 1.1 §G.4.2.3).
+        let e = compile("\\p{IsLatinExtendedA}").unwrap_err();
+        assert!(
+            e.contains("IsLatinExtendedA") && e.contains("IsLatinExtended-A"),
+            "{e}"
+        );
+        let e = compile("[a\\P{IsNoSuchBlock}]").unwrap_err();
+        assert!(e.contains("IsNoSuchBlock"), "{e}");
+        assert!(compile("\\p{Is}").is_err());
+        assert!(compile("\\p{IsBasic_Latin}").is_err());
+        assert!(compile("\\p{Isbasiclatin}").is_err());
     }
 }

@@ -117,6 +117,16 @@ pub fn describe(r: &DataRange) -> String {
             parts.push(format!("{name}[{} states]", d.trans.len()));
         }
     }
+    if r.xml.co && r.xml.values.is_empty() {
+        parts.push("XMLLiteral".into());
+    } else if r.xml.co {
+        parts.push("XMLLiteral except {…}".into());
+    }
+    if !r.xml.co {
+        for v in &r.xml.values {
+            parts.push(format!("{{\"{v}\" (XMLLiteral)}}"));
+        }
+    }
     for (set, name) in [
         (&r.time.zoned, "dateTimeStamp"),
         (&r.time.local, "local dateTime"),

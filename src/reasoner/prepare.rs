@@ -30,6 +30,8 @@ pub struct Prepared {
     pub transitive: Vec<bool>,
     /// For each role r: concepts added to x when x has an r-neighbour (domains, functional).
     pub triggers: Vec<Vec<ConceptId>>,
+    /// For each role r: concepts added to x when x has an r-loop (absorbed ∃r.Self ⊑ D).
+    pub self_triggers: Vec<Vec<ConceptId>>,
     /// For each concept id of an atom: concepts added with it (absorbed GCIs).
     pub unfold: Vec<Vec<ConceptId>>,
     /// Concept added to every node (internalised GCIs), ⊤ when none.
@@ -146,6 +148,7 @@ pub fn prepare(
         sub: vec![false; n_roles * n_roles],
         transitive: vec![false; n_roles],
         triggers: vec![Vec::new(); n_roles],
+        self_triggers: vec![Vec::new(); n_roles],
         data_supers: vec![Vec::new(); n_dp],
         data_functional: vec![false; n_dp],
         data_ranges: vec![Vec::new(); n_dp],
@@ -613,6 +616,14 @@ fn absorb(
         // arises from ∃r.{a} ⊑ D (ObjectHasValue on the left, via the role absorption
         // below) and, internalised, would put the disjunction ¬{a} ⊔ D on every node.
         Concept::Nominal(a) => p.class_assertions.push((d, a)),
+        // ∃r.Self ⊑ D (r simple, as OWL 2 DL demands) fires when an r-loop is added, like a
+        // domain trigger, instead of the disjunction ¬∃r.Self ⊔ D on every node: RiC-O's 48
+        // `C ≡ ∃r.Self` definitions made 48 branch points per node. A loop in either direction
+        // is the same loop, so D is recorded under r and r⁻.
+        Concept::HasSelf(r) if !p.complex[r.index()] => {
+            p.self_triggers[r.index()].push(d);
+            p.self_triggers[r.inverse().index()].push(d);
+        }
         Concept::Some(r, x) => {
             if x == ConceptId::TOP && !p.complex[r.index()] {
                 p.triggers[r.index()].push(d);

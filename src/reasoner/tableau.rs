@@ -663,6 +663,11 @@ impl<'a> Tableau<'a> {
             for &t in &p.triggers[q.index()] {
                 self.add(x, t, dep);
             }
+            if x == y {
+                for &t in &p.self_triggers[q.index()] {
+                    self.add(x, t, dep);
+                }
+            }
         }
         let alls = self.g.nodes[x].alls.clone();
         for c in alls {

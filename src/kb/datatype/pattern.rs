@@ -346,7 +346,9 @@ const XSD10_BLOCKS: &[(&str, &[(u32, u32)])] = &[
 /// The match is exact: Unicode's own loose matching (UAX #44 LM3, which ignores case and
 /// hyphens) is not what XSD defines, so a near miss is named in the error instead. §G.4.2.4
 /// lets an unrecognized name match every character or, at user option, be an error; a
-/// silent wildcard would change answers, so it is an error here.
+/// silent wildcard would change answers, so it is an error here. (The section numbers and
+/// the normalisation rule are from memory, checked against other implementations that quote
+/// the spec, not against its text.)
 fn block(name: &str) -> Result<Class, String> {
     // IsBlock ::= 'Is' [a-zA-Z0-9#x2D]+ (production [36] of XSD 1.0, [96] of XSD 1.1).
     if name.is_empty() || !name.bytes().all(|b| b.is_ascii_alphanumeric() || b == b'-') {

@@ -61,6 +61,16 @@ fn why_reads_fragments_prefixed_names_and_labels() {
     assert!(out.contains("Justification 1"), "{out}");
 }
 
+/// A non-entailment has no justification, so no repair is listed (hand-derived: A ⊑ B does not
+/// follow, A and B being disjoint).
+#[test]
+fn a_non_entailment_lists_no_repair() {
+    let (code, out, err) = why(&["--entailment", "A SubClassOf B"]);
+    assert_eq!(code, 0, "{err}");
+    assert!(out.contains("not entailed"), "{out}");
+    assert!(!out.contains("repairs"), "{out}");
+}
+
 #[test]
 fn unknown_names_and_prefixes_are_told_apart() {
     let (code, _, err) = why(&["--unsat", "Clsh"]);

@@ -146,8 +146,10 @@ pub fn why_text(
                 }
             }
         }
+        // Without a justification there is nothing to repair (the empty family's one hitting
+        // set is empty, which is no repair).
         let reps = minimal_hitting_sets(&r.justifications);
-        if repairs && !reps.is_empty() {
+        if repairs && !r.justifications.is_empty() && !reps.is_empty() {
             let _ = writeln!(s, "  Minimal repairs (remove all axioms of one line):");
             for rep in reps {
                 let _ = writeln!(

@@ -6,7 +6,7 @@
 #[path = "fixtures/oracle/harness.rs"]
 mod harness;
 
-use harness::{Case, assert_no_failures, check};
+use harness::check_hand_derived;
 use std::path::PathBuf;
 
 fn dir() -> PathBuf {
@@ -14,21 +14,7 @@ fn dir() -> PathBuf {
 }
 
 fn run(name: &str) {
-    let case = Case {
-        ontology: dir().join(format!("{name}.ofn")),
-        expected: dir().join(format!("{name}.json")),
-        source: "hand-derived, see the file's header".to_owned(),
-        extra_args: Vec::new(),
-    };
-    let failures: Vec<String> = match check(&case) {
-        Ok(()) => vec![],
-        Err(report) => vec![format!(
-            "{}:\n{}",
-            case.ontology.display(),
-            report.trim_end()
-        )],
-    };
-    assert_no_failures("datatype checks", 1, &failures);
+    check_hand_derived("datatype checks", &dir(), name);
 }
 
 macro_rules! datatypes {

@@ -9,7 +9,7 @@
 #[path = "fixtures/oracle/harness.rs"]
 mod harness;
 
-use harness::{Case, assert_no_failures, check, parse_with_horned_owl};
+use harness::{assert_refused, check_hand_derived, parse_with_horned_owl};
 use std::path::PathBuf;
 
 fn dir() -> PathBuf {
@@ -17,21 +17,7 @@ fn dir() -> PathBuf {
 }
 
 fn run(name: &str) {
-    let case = Case {
-        ontology: dir().join(format!("{name}.ofn")),
-        expected: dir().join(format!("{name}.json")),
-        source: "hand-derived, see the file's header".to_owned(),
-        extra_args: Vec::new(),
-    };
-    let failures: Vec<String> = match check(&case) {
-        Ok(()) => vec![],
-        Err(report) => vec![format!(
-            "{}:\n{}",
-            case.ontology.display(),
-            report.trim_end()
-        )],
-    };
-    assert_no_failures("SROIQ checks", 1, &failures);
+    check_hand_derived("SROIQ checks", &dir(), name);
 }
 
 macro_rules! sroiq {
@@ -114,38 +100,28 @@ fn sroiq_fixtures_parse_with_horned_owl() {
 /// exit 2, with the cycle named; so is a facet on a defined datatype (§7.5).
 #[test]
 fn datatype_definition_refusals_name_the_problem() {
-    let tmp = std::env::temp_dir().join(format!("wherefore-dtdef-{}", std::process::id()));
-    std::fs::create_dir_all(&tmp).unwrap();
     let head = "Prefix(:=<http://example.org/d#>)\nPrefix(xsd:=<http://www.w3.org/2001/XMLSchema#>)\nOntology(<http://example.org/d>\nDeclaration(Datatype(:a)) Declaration(Datatype(:b))\n";
-    for (name, body, needle) in [
-        (
-            "cycle.ofn",
-            "DatatypeDefinition(:a DataUnionOf(:b xsd:string))\nDatatypeDefinition(:b DataComplementOf(:a))\n",
-            "http://example.org/d#a -> http://example.org/d#b -> http://example.org/d#a",
-        ),
-        (
-            "facet.ofn",
-            "DatatypeDefinition(:a xsd:integer)\nDatatypeDefinition(:b DatatypeRestriction(:a xsd:minInclusive \"1\"^^xsd:integer))\n",
-            "a datatype defined in the ontology",
-        ),
-        (
-            "redefine.ofn",
-            "DatatypeDefinition(xsd:integer xsd:string)\n",
-            "cannot be redefined",
-        ),
-    ] {
-        let f = tmp.join(name);
-        std::fs::write(&f, format!("{head}{body})\n")).unwrap();
-        let out = std::process::Command::new(env!("CARGO_BIN_EXE_wherefore"))
-            .args(["classify", f.to_str().unwrap()])
-            .output()
-            .unwrap();
-        let err = String::from_utf8_lossy(&out.stderr);
-        assert_eq!(out.status.code(), Some(2), "{name}: {err}");
-        assert!(err.contains(needle), "{name}: {err}");
-        assert!(err.contains(name), "{name} names the file: {err}");
-    }
-    std::fs::remove_dir_all(&tmp).ok();
+    assert_refused(
+        "dtdef",
+        head,
+        &[
+            (
+                "cycle.ofn",
+                "DatatypeDefinition(:a DataUnionOf(:b xsd:string))\nDatatypeDefinition(:b DataComplementOf(:a))\n",
+                "http://example.org/d#a -> http://example.org/d#b -> http://example.org/d#a",
+            ),
+            (
+                "facet.ofn",
+                "DatatypeDefinition(:a xsd:integer)\nDatatypeDefinition(:b DatatypeRestriction(:a xsd:minInclusive \"1\"^^xsd:integer))\n",
+                "a datatype defined in the ontology",
+            ),
+            (
+                "redefine.ofn",
+                "DatatypeDefinition(xsd:integer xsd:string)\n",
+                "cannot be redefined",
+            ),
+        ],
+    );
 }
 
 /// What OWL 2 DL forbids of the top properties is refused with the section named (exit 2):
@@ -154,46 +130,36 @@ fn datatype_definition_refusals_name_the_problem() {
 /// super-property (§11.2). HermiT 1.3.8 refuses the same axioms.
 #[test]
 fn top_property_refusals_cite_owl2_dl() {
-    let tmp = std::env::temp_dir().join(format!("wherefore-top-{}", std::process::id()));
-    std::fs::create_dir_all(&tmp).unwrap();
     let head = "Prefix(:=<http://example.org/t#>)\nPrefix(owl:=<http://www.w3.org/2002/07/owl#>)\nPrefix(xsd:=<http://www.w3.org/2001/XMLSchema#>)\nOntology(<http://example.org/t>\nDeclaration(Class(:A)) Declaration(NamedIndividual(:a))\n";
-    for (name, body, needle) in [
-        (
-            "at-most.ofn",
-            "SubClassOf(owl:Thing ObjectMaxCardinality(2 owl:topObjectProperty :A))\n",
-            "§11.1",
-        ),
-        (
-            "self.ofn",
-            "SubClassOf(:A ObjectHasSelf(owl:topObjectProperty))\n",
-            "§11.1",
-        ),
-        (
-            "functional.ofn",
-            "FunctionalObjectProperty(owl:topObjectProperty)\n",
-            "§11.1",
-        ),
-        (
-            "top-data.ofn",
-            "DataPropertyAssertion(owl:topDataProperty :a \"x\")\n",
-            "§11.2",
-        ),
-        (
-            "top-data-some.ofn",
-            "SubClassOf(:A DataSomeValuesFrom(owl:topDataProperty xsd:integer))\n",
-            "§11.2",
-        ),
-    ] {
-        let f = tmp.join(name);
-        std::fs::write(&f, format!("{head}{body})\n")).unwrap();
-        let out = std::process::Command::new(env!("CARGO_BIN_EXE_wherefore"))
-            .args(["classify", f.to_str().unwrap()])
-            .output()
-            .unwrap();
-        let err = String::from_utf8_lossy(&out.stderr);
-        assert_eq!(out.status.code(), Some(2), "{name}: {err}");
-        assert!(err.contains(needle), "{name}: {err}");
-        assert!(err.contains(name), "{name} names the file: {err}");
-    }
-    std::fs::remove_dir_all(&tmp).ok();
+    assert_refused(
+        "top",
+        head,
+        &[
+            (
+                "at-most.ofn",
+                "SubClassOf(owl:Thing ObjectMaxCardinality(2 owl:topObjectProperty :A))\n",
+                "§11.1",
+            ),
+            (
+                "self.ofn",
+                "SubClassOf(:A ObjectHasSelf(owl:topObjectProperty))\n",
+                "§11.1",
+            ),
+            (
+                "functional.ofn",
+                "FunctionalObjectProperty(owl:topObjectProperty)\n",
+                "§11.1",
+            ),
+            (
+                "top-data.ofn",
+                "DataPropertyAssertion(owl:topDataProperty :a \"x\")\n",
+                "§11.2",
+            ),
+            (
+                "top-data-some.ofn",
+                "SubClassOf(:A DataSomeValuesFrom(owl:topDataProperty xsd:integer))\n",
+                "§11.2",
+            ),
+        ],
+    );
 }

@@ -81,42 +81,22 @@ impl Converter<'_> {
             }
             C::ReflexiveObjectProperty(ax) => truth(special_property(&ax.0)?),
             C::DisjointObjectProperties(ax) => {
-                let specials: Vec<Option<bool>> = ax.0.iter().map(special_property).collect();
-                if specials.iter().all(|s| s.is_none()) {
-                    return None;
-                }
-                if specials.contains(&Some(true)) {
+                let (top, _, others) = split_special(&ax.0, special_property)?;
+                if top {
                     return Some(Err(NOT_SIMPLE.into()));
                 }
                 // The bottom property is disjoint from every property: the rest stay
                 // pairwise disjoint.
-                let others: Vec<&OPE<ArcStr>> =
-                    ax.0.iter()
-                        .zip(&specials)
-                        .filter(|(_, s)| s.is_none())
-                        .map(|(e, _)| e)
-                        .collect();
                 match self.disjoint_roles(&others) {
                     Ok(o) => o,
                     Err(e) => return Some(Err(e)),
                 }
             }
             C::EquivalentObjectProperties(ax) => {
-                let specials: Vec<Option<bool>> = ax.0.iter().map(special_property).collect();
-                if specials.iter().all(|s| s.is_none()) {
-                    return None;
-                }
-                let others: Vec<&OPE<ArcStr>> =
-                    ax.0.iter()
-                        .zip(&specials)
-                        .filter(|(_, s)| s.is_none())
-                        .map(|(e, _)| e)
-                        .collect();
-                let has_top = specials.contains(&Some(true));
-                let has_bottom = specials.contains(&Some(false));
-                if has_top && has_bottom {
+                let (top, bottom, others) = split_special(&ax.0, special_property)?;
+                if top && bottom {
                     False
-                } else if has_bottom {
+                } else if bottom {
                     match self.empty_roles(&others) {
                         Ok(axs) => Outcome::Axioms(axs),
                         Err(e) => return Some(Err(e)),
@@ -190,39 +170,28 @@ impl Converter<'_> {
                 }
             }
             C::EquivalentDataProperties(ax) => {
-                let specials: Vec<Option<bool>> =
-                    ax.0.iter().map(|d| special_data_property(&d.0)).collect();
-                if specials.iter().all(|s| s.is_none()) {
-                    return None;
-                }
-                if specials.contains(&Some(true)) {
+                let (top, _, others) = split_special(&ax.0, |d| special_data_property(&d.0))?;
+                if top {
                     return Some(Err(TOP_DATA.into()));
                 }
                 // Equivalent to the bottom property: empty.
-                let mut axs = Vec::new();
-                for (d, s) in ax.0.iter().zip(&specials) {
-                    if s.is_none() {
-                        let p = self.kb.vocab.data_prop(&d.0);
-                        axs.push(Axiom::DataDomain(p, ConceptId::BOTTOM));
-                    }
-                }
+                let axs = others
+                    .iter()
+                    .map(|d| Axiom::DataDomain(self.kb.vocab.data_prop(&d.0), ConceptId::BOTTOM))
+                    .collect();
                 Outcome::Axioms(axs)
             }
             C::DisjointDataProperties(ax) => {
-                let specials: Vec<Option<bool>> =
-                    ax.0.iter().map(|d| special_data_property(&d.0)).collect();
-                if specials.iter().all(|s| s.is_none()) {
-                    return None;
-                }
-                if specials.contains(&Some(true)) {
+                let (top, _, others) = split_special(&ax.0, |d| special_data_property(&d.0))?;
+                if top {
                     return Some(Err(TOP_DATA.into()));
                 }
                 // The bottom data property is disjoint from every one: the rest stay so.
-                let mut kept = ax.clone();
-                kept.0.retain(|d| special_data_property(&d.0).is_none());
-                if kept.0.len() < 2 {
+                if others.len() < 2 {
                     True
                 } else {
+                    let mut kept = ax.clone();
+                    kept.0 = others.into_iter().cloned().collect();
                     Outcome::Instead(C::DisjointDataProperties(kept))
                 }
             }
@@ -287,6 +256,23 @@ impl Converter<'_> {
         let p = self.kb.vocab.data_prop(&d.0);
         Outcome::Axioms(vec![Axiom::DataDomain(p, ConceptId::BOTTOM)])
     }
+}
+
+/// The members of a property list that are neither a top nor a bottom property, with whether
+/// the list holds a top one and a bottom one; `None` when it holds neither.
+fn split_special<T>(
+    items: &[T],
+    special: impl Fn(&T) -> Option<bool>,
+) -> Option<(bool, bool, Vec<&T>)> {
+    let (mut top, mut bottom, mut others) = (false, false, Vec::new());
+    for item in items {
+        match special(item) {
+            Some(true) => top = true,
+            Some(false) => bottom = true,
+            None => others.push(item),
+        }
+    }
+    (top || bottom).then_some((top, bottom, others))
 }
 
 /// Why an axiom that makes an ordinary property universal is refused.
